@@ -26,11 +26,11 @@ const (
 // IOStreams carries the standard streams so commands can be tested with
 // buffers. Results go to Out; errors, warnings and progress go to ErrOut.
 type IOStreams struct {
-	In        io.Reader
-	Out       io.Writer
-	ErrOut    io.Writer
-	ErrIsTTY  bool
-	OutIsTTY  bool
+	In       io.Reader
+	Out      io.Writer
+	ErrOut   io.Writer
+	ErrIsTTY bool
+	OutIsTTY bool
 }
 
 // SystemIO returns the process's own streams.

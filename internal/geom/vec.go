@@ -60,7 +60,9 @@ func (p Vec3) Cross(q Vec3) Vec3 {
 }
 
 // Norm returns the length of p.
-func (p Vec3) Norm() float64 { return math.Sqrt(float64(p.X*p.X) + float64(p.Y*p.Y) + float64(p.Z*p.Z)) }
+func (p Vec3) Norm() float64 {
+	return math.Sqrt(float64(p.X*p.X) + float64(p.Y*p.Y) + float64(p.Z*p.Z))
+}
 
 // IsFinite reports whether all three coordinates are finite numbers.
 func (p Vec3) IsFinite() bool { return isFinite(p.X) && isFinite(p.Y) && isFinite(p.Z) }
