@@ -44,8 +44,8 @@ func TestRingContainsDistance(t *testing.T) {
 		dist float64
 	}{
 		{Vec2{0.5, 0.5}, true, 0},
-		{Vec2{2, 2}, false, 1},            // in the notch: nearest is the reflex corner (1,1)... distance to edges
-		{Vec2{3, 0.5}, true, 0},           // on the boundary counts as inside
+		{Vec2{2, 2}, false, 1},  // in the notch: nearest is the reflex corner (1,1)... distance to edges
+		{Vec2{3, 0.5}, true, 0}, // on the boundary counts as inside
 		{Vec2{4, 0.5}, false, 1},
 		{Vec2{-1, -1}, false, math.Sqrt2},
 	}
