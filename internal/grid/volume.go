@@ -39,6 +39,31 @@ func PositivePart(area, f0, f1, f2 float64) (integral, support float64) {
 	}
 }
 
+// Parts returns both signed parts of the linear f over a triangle of plan
+// area area: pos = ∬ max(0, f), neg = ∬ max(0, −f), and the areas where
+// f > 0 and f < 0, by the formulas of [PositivePart] applied to f and −f
+// after one sort.
+func Parts(area, f0, f1, f2 float64) (pos, neg, posArea, negArea float64) {
+	a, b, c := sort3(f0, f1, f2)
+	switch {
+	case c >= 0:
+		if a == 0 {
+			return 0, 0, 0, 0
+		}
+		return area * (a + b + c) / 3, 0, area, 0
+	case a <= 0:
+		return 0, -area * (a + b + c) / 3, 0, area
+	case b <= 0: // one corner positive
+		r := a / (a - b) * (a / (a - c))
+		// −f has two non-negative corners (−c ≥ −b ≥ 0 > −a); the formula
+		// of case 4 is continuous at b = 0, where it meets case 3.
+		return area * r * a / 3, area * (r*a/3 - (a+b+c)/3), area * r, area * (1 - r)
+	default: // two corners positive, c < 0
+		r := c / (a - c) * (c / (b - c))
+		return area * ((a+b+c)/3 - r*c/3), -area * r * c / 3, area * (1 - r), area * r
+	}
+}
+
 func sort3(x, y, z float64) (a, b, c float64) {
 	if x < y {
 		x, y = y, x
@@ -75,10 +100,8 @@ func DiffVolumes(l Lattice, a, b []float64) (pos, neg float64) {
 			if math.IsNaN(d00 + d10 + d01 + d11) {
 				continue
 			}
-			p1, _ := PositivePart(half, d00, d10, d11)
-			n1, _ := PositivePart(half, -d00, -d10, -d11)
-			p2, _ := PositivePart(half, d00, d11, d01)
-			n2, _ := PositivePart(half, -d00, -d11, -d01)
+			p1, n1, _, _ := Parts(half, d00, d10, d11)
+			p2, n2, _, _ := Parts(half, d00, d11, d01)
 			sp.Add(p1 + p2)
 			sn.Add(n1 + n2)
 		}

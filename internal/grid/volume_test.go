@@ -65,6 +65,12 @@ func TestPositivePart(t *testing.T) {
 		if math.Abs(gotI-wantI) > 1e-12*(1+math.Abs(wantI)) || math.Abs(gotA-wantA) > 1e-12*area {
 			t.Fatalf("PositivePart(%g, %v) = %g, %g, want %g, %g (clipping)", area, f, gotI, gotA, wantI, wantA)
 		}
+		wantN, wantNA := clipIntegral(tri, -g0, -gx, -gy)
+		p, ng, pa, na := Parts(area, f[0], f[1], f[2])
+		if math.Abs(p-wantI) > 1e-12*(1+math.Abs(wantI)) || math.Abs(pa-wantA) > 1e-12*area ||
+			math.Abs(ng-wantN) > 1e-12*(1+math.Abs(wantN)) || math.Abs(na-wantNA) > 1e-12*area {
+			t.Fatalf("Parts(%g, %v) = %g, %g, %g, %g, want %g, %g, %g, %g (clipping)", area, f, p, ng, pa, na, wantI, wantN, wantA, wantNA)
+		}
 	}
 	if i, a := PositivePart(1, 0, 0, 0); i != 0 || a != 0 {
 		t.Errorf("PositivePart(1, 0, 0, 0) = %g, %g, want 0, 0", i, a)
