@@ -95,8 +95,8 @@ func TestOrient2D_Table(t *testing.T) {
 		// the exact value of the determinant decides (big.Rat agrees).
 		{"decimal near-collinear", p2(0.1, 0.1), p2(0.2, 0.2), p2(0.3, 0.3), exactOrient(p2(0.1, 0.1), p2(0.2, 0.2), p2(0.3, 0.3))},
 		// Points on a line at UTM-sized offsets with 1 mm spacing.
-		{"utm collinear", p2(5e6, 5e6), p2(5e6 + 0.001, 5e6 + 0.001), p2(5e6 + 0.002, 5e6 + 0.002),
-			exactOrient(p2(5e6, 5e6), p2(5e6 + 0.001, 5e6 + 0.001), p2(5e6 + 0.002, 5e6 + 0.002))},
+		{"utm collinear", p2(5e6, 5e6), p2(5e6+0.001, 5e6+0.001), p2(5e6+0.002, 5e6+0.002),
+			exactOrient(p2(5e6, 5e6), p2(5e6+0.001, 5e6+0.001), p2(5e6+0.002, 5e6+0.002))},
 		{"one ulp left", p2(0, 0), p2(1, 1), p2(0.5, math.Nextafter(0.5, 1)), Positive},
 		{"one ulp right", p2(0, 0), p2(1, 1), p2(0.5, math.Nextafter(0.5, 0)), Negative},
 	}
@@ -134,7 +134,7 @@ func TestInCircle_Table(t *testing.T) {
 	// A grid cell: the four corners of a unit square are cocircular, also far
 	// from the origin with millimetre cells.
 	for _, off := range []float64{0, 1e3, 5e6} {
-		p := func(x, y float64) geom.Vec2 { return p2(off + x, off + y) }
+		p := func(x, y float64) geom.Vec2 { return p2(off+x, off+y) }
 		for _, h := range []float64{1, 0.001} {
 			if got := InCircle(p(0, 0), p(h, 0), p(h, h), p(0, h)); got != exactInCircle(p(0, 0), p(h, 0), p(h, h), p(0, h)) {
 				t.Errorf("InCircle(square offset %g cell %g) = %v, want exact %v", off, h, got, exactInCircle(p(0, 0), p(h, 0), p(h, h), p(0, h)))
@@ -148,17 +148,17 @@ func TestInCircle_Table(t *testing.T) {
 // ab (rounded to float64) and then moved by up to two ulps per coordinate.
 func nearCollinear(r *rand.Rand, offset, scale float64) (a, b, c geom.Vec2) {
 	pt := func() geom.Vec2 {
-		return p2(offset + (r.Float64()-0.5)*scale, offset + (r.Float64()-0.5)*scale)
+		return p2(offset+(r.Float64()-0.5)*scale, offset+(r.Float64()-0.5)*scale)
 	}
 	a, b = pt(), pt()
 	if r.IntN(4) == 0 {
 		// Grid-aligned spacing, e.g. millimetre steps at a large offset.
 		step := scale / 1000
-		a = p2(offset + float64(r.IntN(1000))*step, offset + float64(r.IntN(1000))*step)
-		b = p2(a.X + float64(r.IntN(7)-3)*step, a.Y + float64(r.IntN(7)-3)*step)
+		a = p2(offset+float64(r.IntN(1000))*step, offset+float64(r.IntN(1000))*step)
+		b = p2(a.X+float64(r.IntN(7)-3)*step, a.Y+float64(r.IntN(7)-3)*step)
 	}
 	t := r.Float64()*3 - 1
-	c = p2(a.X + t*(b.X-a.X), a.Y + t*(b.Y-a.Y))
+	c = p2(a.X+t*(b.X-a.X), a.Y+t*(b.Y-a.Y))
 	nudge := func(x float64) float64 {
 		if x == 0 {
 			// Nudging zero gives a subnormal number, outside the
@@ -184,13 +184,13 @@ func nearCocircular(r *rand.Rand, offset, radius float64) (a, b, c, d geom.Vec2)
 	cx, cy := offset+r.Float64()*radius, offset+r.Float64()*radius
 	on := func() geom.Vec2 {
 		th := r.Float64() * 2 * math.Pi
-		return p2(cx + radius*math.Cos(th), cy + radius*math.Sin(th))
+		return p2(cx+radius*math.Cos(th), cy+radius*math.Sin(th))
 	}
 	a, b, c, d = on(), on(), on(), on()
 	if r.IntN(4) == 0 {
 		// Exactly cocircular: corners of an axis-aligned rectangle.
 		w, h := radius*float64(1+r.IntN(5))/8, radius*float64(1+r.IntN(5))/8
-		a, b, c, d = p2(cx, cy), p2(cx + w, cy), p2(cx + w, cy + h), p2(cx, cy + h)
+		a, b, c, d = p2(cx, cy), p2(cx+w, cy), p2(cx+w, cy+h), p2(cx, cy+h)
 	}
 	if Orient2D(a, b, c) < 0 {
 		a, b = b, a
@@ -312,17 +312,17 @@ func TestStages(t *testing.T) {
 		// Coordinates with many significant bits so that differences are
 		// inexact, then d pushed onto the circle to within an ulp.
 		base := 1 + r.Float64()
-		a := p2(base + r.Float64()*1e-8, base)
-		b := p2(base, base + r.Float64()*1e-8)
-		c := p2(base - r.Float64()*1e-8, base - r.Float64()*1e-9)
+		a := p2(base+r.Float64()*1e-8, base)
+		b := p2(base, base+r.Float64()*1e-8)
+		c := p2(base-r.Float64()*1e-8, base-r.Float64()*1e-9)
 		if Orient2D(a, b, c) < 0 {
 			a, b = b, a
 		}
-		d := p2(c.X + r.Float64()*1e-16, c.Y + r.Float64()*1e-16)
+		d := p2(c.X+r.Float64()*1e-16, c.Y+r.Float64()*1e-16)
 		if got, want := InCircle(a, b, c, d), exactInCircle(a, b, c, d); got != want {
 			t.Fatalf("case %d (seed %d): InCircle(%v, %v, %v, %v) = %v, want %v", i, seed, a, b, c, d, got, want)
 		}
-		e := p2(a.X + (b.X-a.X)*0.5 + r.Float64()*1e-17, a.Y + (b.Y-a.Y)*0.5)
+		e := p2(a.X+(b.X-a.X)*0.5+r.Float64()*1e-17, a.Y+(b.Y-a.Y)*0.5)
 		if got, want := Orient2D(a, b, e), exactOrient(a, b, e); got != want {
 			t.Fatalf("case %d (seed %d): Orient2D(%v, %v, %v) = %v, want %v", i, seed, a, b, e, got, want)
 		}
@@ -331,8 +331,8 @@ func TestStages(t *testing.T) {
 		// collinear through the origin, and the tiny point makes every
 		// coordinate difference inexact (non-zero tails). Moving the tiny
 		// point by a few ulps gives determinants of order 1e-40 and below.
-		p := p2(r.Float64() + 0.5, r.Float64() + 0.5)
-		q := p2(2 * p.X, 2 * p.Y)
+		p := p2(r.Float64()+0.5, r.Float64()+0.5)
+		q := p2(2*p.X, 2*p.Y)
 		k := 60 + r.IntN(40)
 		tiny := p2(math.Ldexp(p.X, -k), math.Ldexp(p.Y, -k))
 		for range r.IntN(3) {
