@@ -32,10 +32,21 @@ func (c *cell) setTriangle(a, b, d geom.Vec2) {
 	c.p[0], c.p[1], c.p[2] = a, b, d
 }
 
+// bounds returns the bounding box of c, which must not be empty. Plain
+// comparisons are enough: every coordinate is finite.
 func (c *cell) bounds() geom.Box {
-	b := geom.EmptyBox()
-	for i := 0; i < c.n; i++ {
-		b = b.Extend(c.p[i])
+	b := geom.Box{Min: c.p[0], Max: c.p[0]}
+	for _, p := range c.p[1:c.n] {
+		if p.X < b.Min.X {
+			b.Min.X = p.X
+		} else if p.X > b.Max.X {
+			b.Max.X = p.X
+		}
+		if p.Y < b.Min.Y {
+			b.Min.Y = p.Y
+		} else if p.Y > b.Max.Y {
+			b.Max.Y = p.Y
+		}
 	}
 	return b
 }

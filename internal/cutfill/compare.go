@@ -88,7 +88,8 @@ func prepareMesh(name string, m geom.TriMesh) ([]facet, error) {
 			continue // degenerate: its area is within round-off of zero
 		}
 		f := facet{t: [3]geom.Vec2{a.XY(), b.XY(), c.XY()}, pl: planeOf(a, b, c, det)}
-		f.box = geom.BoxOf(f.t[:])
+		tmp := cell{n: 3, p: [maxPolyVerts]geom.Vec2{f.t[0], f.t[1], f.t[2]}}
+		f.box = tmp.bounds()
 		out = append(out, f)
 	}
 	return out, nil
