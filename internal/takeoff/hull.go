@@ -1,0 +1,170 @@
+package takeoff
+
+import (
+	"cmp"
+	"math"
+	"math/big"
+	"slices"
+
+	"github.com/dugout-estimating/dugout/internal/geom"
+)
+
+// orient returns +1 when c lies to the left of the directed line ab
+// (counter-clockwise turn), −1 to the right and 0 when the three points are
+// collinear. The float64 determinant decides when it is larger than the
+// error bound of Shewchuk's orient2d filter, ccwerrboundA = (3 + 16ε)ε with
+// ε = 2⁻⁵³ ("Adaptive precision floating-point arithmetic and fast robust
+// geometric predicates", Discrete Comput. Geom. 18, 1997, §4.3); otherwise
+// the sign is computed exactly with rationals. Package robust holds the
+// project's full predicates; this local copy keeps the hull here
+// self-contained.
+func orient(a, b, c geom.Vec2) int {
+	const eps = 1.0 / (1 << 53)
+	const errBound = (3 + 16*eps) * eps
+	detLeft := float64((a.X - c.X) * (b.Y - c.Y))
+	detRight := float64((a.Y - c.Y) * (b.X - c.X))
+	det := detLeft - detRight
+	bound := errBound * (math.Abs(detLeft) + math.Abs(detRight))
+	switch {
+	case det > bound:
+		return 1
+	case -det > bound:
+		return -1
+	case detLeft == 0 && detRight == 0:
+		return 0
+	}
+	r := func(f float64) *big.Rat { return new(big.Rat).SetFloat64(f) }
+	acx := new(big.Rat).Sub(r(a.X), r(c.X))
+	bcy := new(big.Rat).Sub(r(b.Y), r(c.Y))
+	acy := new(big.Rat).Sub(r(a.Y), r(c.Y))
+	bcx := new(big.Rat).Sub(r(b.X), r(c.X))
+	l := new(big.Rat).Mul(acx, bcy)
+	rr := new(big.Rat).Mul(acy, bcx)
+	return l.Cmp(rr)
+}
+
+// convexHull returns the convex hull of pts, counter-clockwise, without
+// collinear points, by Andrew's monotone chain (A. M. Andrew, "Another
+// efficient algorithm for convex hulls in two dimensions", Inform. Process.
+// Lett. 9, 1979). Fewer than three distinct points come back as they are
+// (deduplicated and sorted). pts is not modified. Cost O(n log n).
+func convexHull(pts []geom.Vec2) []geom.Vec2 {
+	p := slices.Clone(pts)
+	slices.SortFunc(p, func(a, b geom.Vec2) int {
+		if c := cmp.Compare(a.X, b.X); c != 0 {
+			return c
+		}
+		return cmp.Compare(a.Y, b.Y)
+	})
+	p = slices.Compact(p)
+	if len(p) < 3 {
+		return p
+	}
+	h := make([]geom.Vec2, 0, 2*len(p))
+	for _, q := range p {
+		for len(h) >= 2 && orient(h[len(h)-2], h[len(h)-1], q) <= 0 {
+			h = h[:len(h)-1]
+		}
+		h = append(h, q)
+	}
+	lower := len(h) + 1
+	for i := len(p) - 2; i >= 0; i-- {
+		q := p[i]
+		for len(h) >= lower && orient(h[len(h)-2], h[len(h)-1], q) <= 0 {
+			h = h[:len(h)-1]
+		}
+		h = append(h, q)
+	}
+	return h[:len(h)-1]
+}
+
+// Rect is an oriented rectangle in plan: its centre, the length of its
+// longer side and of its shorter side (m), and the direction of the longer
+// side in degrees counter-clockwise from the local x (east) axis, in
+// [0, 180).
+type Rect struct {
+	Center   geom.Vec2 `json:"-"`
+	LengthM  float64   `json:"length_m"`
+	WidthM   float64   `json:"width_m"`
+	AngleDeg float64   `json:"angle_deg"`
+}
+
+// PerimeterM returns the perimeter of r.
+func (r Rect) PerimeterM() float64 { return 2 * (r.LengthM + r.WidthM) }
+
+// AreaM2 returns the area of r.
+func (r Rect) AreaM2() float64 { return r.LengthM * r.WidthM }
+
+// MinAreaRect returns the minimum-area rectangle enclosing pts. One side of
+// that rectangle lies along an edge of the convex hull (Freeman & Shapira,
+// "Determining the minimum-area encasing rectangle for an arbitrary closed
+// curve", Comm. ACM 18, 1975), so every hull edge direction is tried; ties
+// keep the first edge in hull order. Collinear input gives a rectangle of
+// zero width along the line, a single point a zero rectangle, and no points
+// the zero Rect. Cost O(n log n + h²) for h hull vertices.
+func MinAreaRect(pts []geom.Vec2) Rect {
+	h := convexHull(pts)
+	switch len(h) {
+	case 0:
+		return Rect{}
+	case 1:
+		return Rect{Center: h[0]}
+	case 2:
+		d := h[1].Sub(h[0])
+		return Rect{Center: h[0].Lerp(h[1], 0.5), LengthM: d.Norm(), AngleDeg: angleDeg(d)}
+	}
+	best := Rect{}
+	bestArea := math.Inf(1)
+	for i := range h {
+		d := h[(i+1)%len(h)].Sub(h[i])
+		u := d.Scale(1 / d.Norm())
+		n := geom.Vec2{X: -u.Y, Y: u.X}
+		lo, hi := extent(h, u)
+		nlo, nhi := extent(h, n)
+		a := (hi - lo) * (nhi - nlo)
+		if a < bestArea {
+			bestArea = a
+			c := u.Scale((lo + hi) / 2).Add(n.Scale((nlo + nhi) / 2))
+			r := Rect{Center: c, LengthM: hi - lo, WidthM: nhi - nlo, AngleDeg: angleDeg(u)}
+			if r.WidthM > r.LengthM {
+				r.LengthM, r.WidthM = r.WidthM, r.LengthM
+				r.AngleDeg = normAngle(r.AngleDeg + 90)
+			}
+			best = r
+		}
+	}
+	return best
+}
+
+// extent returns the smallest and largest projection of pts onto u.
+func extent(pts []geom.Vec2, u geom.Vec2) (lo, hi float64) {
+	lo, hi = math.Inf(1), math.Inf(-1)
+	for _, p := range pts {
+		t := p.Dot(u)
+		lo = math.Min(lo, t)
+		hi = math.Max(hi, t)
+	}
+	return lo, hi
+}
+
+// angleDeg returns the direction of d in degrees in [0, 180).
+func angleDeg(d geom.Vec2) float64 {
+	return normAngle(math.Atan2(d.Y, d.X) * 180 / math.Pi)
+}
+
+// angleSnapDeg folds angles within 1e-9° below 180° to 0°, so that a
+// direction a hair clockwise of east (a hull edge with round-off in it)
+// reads 0 rather than 179.999999999.
+const angleSnapDeg = 1e-9
+
+// normAngle folds an angle in degrees into [0, 180).
+func normAngle(a float64) float64 {
+	a = math.Mod(a, 180)
+	if a < 0 {
+		a += 180
+	}
+	if a >= 180-angleSnapDeg {
+		a = 0
+	}
+	return a
+}

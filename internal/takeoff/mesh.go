@@ -1,0 +1,307 @@
+package takeoff
+
+import (
+	"fmt"
+	"math"
+	"slices"
+
+	"github.com/dugout-estimating/dugout/internal/geom"
+)
+
+// belowFraction returns the fraction of a planar triangle with corner
+// elevations z0, z1, z2 that lies strictly below level. The part below is a
+// triangle or a quadrilateral cut by the straight level line, so the same
+// fraction applies to plan and 3-D area. A triangle lying exactly at the
+// level counts as not below, so that a mesh whose elevations were capped at
+// the rim does not count the capped ground as lined.
+func belowFraction(z0, z1, z2, level float64) float64 {
+	if z0 > z1 {
+		z0, z1 = z1, z0
+	}
+	if z1 > z2 {
+		z1, z2 = z2, z1
+	}
+	if z0 > z1 {
+		z0, z1 = z1, z0
+	}
+	switch {
+	case z0 >= level:
+		return 0
+	case z2 <= level:
+		return 1
+	case z1 <= level: // only the corner at z2 is above
+		a := (z2 - level) / (z2 - z0)
+		b := (z2 - level) / (z2 - z1)
+		return 1 - a*b
+	default: // only the corner at z0 is below
+		a := (level - z0) / (z1 - z0)
+		b := (level - z0) / (z2 - z0)
+		return a * b
+	}
+}
+
+// DevelopedArea returns the true 3-D area (m²) of the part of m that lies
+// below level, each triangle clipped exactly at the level. Triangles are
+// summed in index order with a compensated sum. Cost O(triangles).
+func DevelopedArea(m geom.TriMesh, level float64) float64 {
+	var s geom.Sum
+	for t := range m.NumTriangles() {
+		a, b, c := m.Triangle(t)
+		if f := belowFraction(a.Z, b.Z, c.Z, level); f > 0 {
+			s.Add(f * geom.SurfaceArea(a, b, c))
+		}
+	}
+	return s.Value()
+}
+
+// PlanArea returns the plan area (m²) of the part of m that lies below
+// level, clipped like [DevelopedArea].
+func PlanArea(m geom.TriMesh, level float64) float64 {
+	var s geom.Sum
+	for t := range m.NumTriangles() {
+		a, b, c := m.Triangle(t)
+		if f := belowFraction(a.Z, b.Z, c.Z, level); f > 0 {
+			s.Add(f * math.Abs(geom.PlanArea(a, b, c)))
+		}
+	}
+	return s.Value()
+}
+
+// meshCell returns a typical cell size of m: the side of the square whose
+// two half-triangles have the mean triangle plan area (exact for a square
+// lattice). It is 0 for an empty or flat-in-plan mesh.
+func meshCell(m geom.TriMesh) float64 {
+	n := m.NumTriangles()
+	if n == 0 {
+		return 0
+	}
+	var s geom.Sum
+	for t := range n {
+		a, b, c := m.Triangle(t)
+		s.Add(math.Abs(geom.PlanArea(a, b, c)))
+	}
+	return math.Sqrt(2 * s.Value() / float64(n))
+}
+
+// outlineSeg is one piece of the boundary of the part of a mesh below a
+// level: the two ends and the outward direction in plan (away from the part
+// below), used to move the ends onto an analytic surface.
+type outlineSeg struct {
+	a, b geom.Vec2
+	out  geom.Vec2
+}
+
+// levelOutline returns the boundary, in plan, of the part of m strictly
+// below level: the level crossings inside triangles and the pieces of the
+// mesh's own boundary edges that lie below the level (a mesh that stops
+// short of the rim). Segments come in triangle order and are not chained.
+// Cost O(T log T) for the boundary-edge search.
+func levelOutline(m geom.TriMesh, level float64) []outlineSeg {
+	var segs []outlineSeg
+	for t := range m.NumTriangles() {
+		v := [3]geom.Vec3{}
+		v[0], v[1], v[2] = m.Triangle(t)
+		var pts [2]geom.Vec2
+		k := 0
+		for i := range 3 {
+			p, q := v[i], v[(i+1)%3]
+			pin, qin := p.Z < level, q.Z < level
+			if pin == qin || k == 2 {
+				continue
+			}
+			f := (level - p.Z) / (q.Z - p.Z)
+			pts[k] = p.XY().Lerp(q.XY(), f)
+			k++
+		}
+		if k != 2 || pts[0] == pts[1] {
+			continue
+		}
+		g := planGradient(v[0], v[1], v[2])
+		if g.Norm2() == 0 {
+			continue
+		}
+		segs = append(segs, outlineSeg{a: pts[0], b: pts[1], out: g.Scale(1 / g.Norm())})
+	}
+	// Boundary edges: used by one triangle only.
+	type half struct {
+		key  uint64
+		a, b int32
+	}
+	n := m.NumTriangles()
+	hs := make([]half, 0, 3*n)
+	for t := range n {
+		for i := range 3 {
+			a, b := m.T[3*t+i], m.T[3*t+(i+1)%3]
+			lo, hi := min(a, b), max(a, b)
+			hs = append(hs, half{key: uint64(uint32(lo))<<32 | uint64(uint32(hi)), a: a, b: b})
+		}
+	}
+	slices.SortFunc(hs, func(x, y half) int {
+		switch {
+		case x.key < y.key:
+			return -1
+		case x.key > y.key:
+			return 1
+		}
+		return 0
+	})
+	for i := 0; i < len(hs); {
+		j := i + 1
+		for j < len(hs) && hs[j].key == hs[i].key {
+			j++
+		}
+		if j-i == 1 {
+			p, q := m.V[hs[i].a], m.V[hs[i].b]
+			if s, ok := edgeBelow(p, q, level); ok {
+				d := q.XY().Sub(p.XY())
+				// Triangles are counter-clockwise, so the outside of a
+				// boundary edge a→b is on its right.
+				out := geom.Vec2{X: d.Y, Y: -d.X}
+				s.out = out.Scale(1 / out.Norm())
+				segs = append(segs, s)
+			}
+		}
+		i = j
+	}
+	return segs
+}
+
+// edgeBelow returns the piece of edge pq strictly below level.
+func edgeBelow(p, q geom.Vec3, level float64) (outlineSeg, bool) {
+	pin, qin := p.Z < level, q.Z < level
+	switch {
+	case !pin && !qin:
+		return outlineSeg{}, false
+	case pin && qin:
+		return outlineSeg{a: p.XY(), b: q.XY()}, p.XY() != q.XY()
+	}
+	f := (level - p.Z) / (q.Z - p.Z)
+	x := p.XY().Lerp(q.XY(), f)
+	if pin {
+		return outlineSeg{a: p.XY(), b: x}, p.XY() != x
+	}
+	return outlineSeg{a: x, b: q.XY()}, x != q.XY()
+}
+
+// planGradient returns the plan gradient (dz/dx, dz/dy) of the plane through
+// a, b and c, or zero for a triangle degenerate in plan.
+func planGradient(a, b, c geom.Vec3) geom.Vec2 {
+	e1, e2 := b.Sub(a), c.Sub(a)
+	det := float64(e1.X*e2.Y) - float64(e1.Y*e2.X)
+	if det == 0 {
+		return geom.Vec2{}
+	}
+	gx := (float64(e1.Z*e2.Y) - float64(e2.Z*e1.Y)) / det
+	gy := (float64(e2.Z*e1.X) - float64(e1.Z*e2.X)) / det
+	return geom.Vec2{X: gx, Y: gy}
+}
+
+// Tolerances of the snap onto the analytic bowl.
+const (
+	// snapTolM ends the bisection: 1 nm, a million times finer than the
+	// 1 mm the takeoff promises and still a thousand ulps of a 1 km local
+	// coordinate (ulp ≈ 1.1e-13 m).
+	snapTolM = 1e-9
+	// snapZTolM accepts a contour point as already on the level when the
+	// analytic bowl there is within 1 nm of it, which is what linear
+	// interpolation gives on a straight wall (only round-off remains).
+	snapZTolM = 1e-9
+)
+
+// snap moves p onto the level set bowl = level along the line p + t·dir,
+// |t| ≤ reach, by bisection, and reports whether it moved. dir is a unit
+// vector pointing uphill (outwards from the bowl). When the bowl is already
+// within snapZTolM of the level at p, or no change of sign is found within
+// reach, p is returned unchanged.
+func snap(b Bowl, p, dir geom.Vec2, level, reach float64) (geom.Vec2, bool) {
+	g := func(t float64) float64 { return b.BowlAt(p.Add(dir.Scale(t))) - level }
+	g0 := g(0)
+	if math.Abs(g0) <= snapZTolM || math.IsNaN(g0) || reach <= 0 {
+		return p, false
+	}
+	// Above the level the crossing is downhill first; below it, uphill.
+	order := [2]float64{-reach, reach}
+	if g0 < 0 {
+		order = [2]float64{reach, -reach}
+	}
+	for _, end := range order {
+		ge := g(end)
+		if math.IsNaN(ge) || (ge > 0) == (g0 > 0) {
+			continue
+		}
+		lo, hi := 0.0, end // g(lo) has the sign of g0, g(hi) the other
+		for range 64 {
+			if math.Abs(hi-lo) <= snapTolM {
+				break
+			}
+			mid := (lo + hi) / 2
+			if gm := g(mid); (gm > 0) == (g0 > 0) {
+				lo = mid
+			} else {
+				hi = mid
+			}
+		}
+		return p.Add(dir.Scale((lo + hi) / 2)), true
+	}
+	return p, false
+}
+
+// VolumeBelow returns the volume (m³) between the level plane and the part
+// of m below it: the water a bowl mesh holds when filled to level. Each
+// triangle's share is integrated exactly for its linear surface (a clipped
+// triangle is a smaller triangle, or the whole minus one). Cost O(T).
+func VolumeBelow(m geom.TriMesh, level float64) float64 {
+	var s geom.Sum
+	for t := range m.NumTriangles() {
+		a, b, c := m.Triangle(t)
+		area := math.Abs(geom.PlanArea(a, b, c))
+		if area == 0 {
+			continue
+		}
+		g := [3]float64{level - a.Z, level - b.Z, level - c.Z}
+		// Sort descending: g[0] >= g[1] >= g[2].
+		if g[0] < g[1] {
+			g[0], g[1] = g[1], g[0]
+		}
+		if g[1] < g[2] {
+			g[1], g[2] = g[2], g[1]
+		}
+		if g[0] < g[1] {
+			g[0], g[1] = g[1], g[0]
+		}
+		switch {
+		case g[0] <= 0:
+			continue
+		case g[2] >= 0:
+			s.Add(area * (g[0] + g[1] + g[2]) / 3)
+		case g[1] <= 0: // one corner under water
+			t1 := g[0] / (g[0] - g[1])
+			t2 := g[0] / (g[0] - g[2])
+			s.Add(area * t1 * t2 * g[0] / 3)
+		default: // one corner dry: the whole minus the dry corner's negative part
+			s0 := g[2] / (g[2] - g[0])
+			s1 := g[2] / (g[2] - g[1])
+			s.Add(area*(g[0]+g[1]+g[2])/3 - area*s0*s1*g[2]/3)
+		}
+	}
+	return s.Value()
+}
+
+// validateMesh reports the first triangle with an index out of range and
+// the first vertex with a non-finite coordinate.
+func validateMesh(m geom.TriMesh) error {
+	if len(m.T)%3 != 0 {
+		return fmt.Errorf("%w: bowl mesh has %d triangle indices, not a multiple of 3", ErrInput, len(m.T))
+	}
+	for i, v := range m.T {
+		if v < 0 || int(v) >= len(m.V) {
+			return fmt.Errorf("%w: bowl mesh triangle %d refers to vertex %d of %d", ErrInput, i/3, v, len(m.V))
+		}
+	}
+	for i, v := range m.V {
+		if !v.IsFinite() {
+			return fmt.Errorf("%w: bowl mesh vertex %d is not finite: (%g, %g, %g)", ErrInput, i, v.X, v.Y, v.Z)
+		}
+	}
+	return nil
+}

@@ -1,0 +1,138 @@
+package takeoff
+
+import (
+	"math"
+
+	"github.com/dugout-estimating/dugout/internal/geom"
+)
+
+// sheetSearch finds the rectangular sheet of least area that covers the
+// lined bowl. For a sheet laid at angle θ, its extent along θ is the longest
+// developed cross-section parallel to θ and its extent across is the same at
+// θ + 90°; each gets the overlap at both ends.
+//
+// The search runs in three stages, each on a more exact profiler:
+//  1. a coarse scan of θ every coarseStepDeg over [0°, 180°) on the raster,
+//     giving the sheet area for θ in [0°, 90°) (θ and θ + 90° are the same
+//     sheet turned);
+//  2. golden-section refinement of the best local minima on the raster, with
+//     more lines and the line offset refined;
+//  3. the refined angles and any extra candidates (the rim's minimum-area
+//     rectangle) measured on the exact profiler (the analytic bowl when
+//     there is one); the least area wins, ties to the earlier candidate.
+type sheetSearch struct {
+	coarse, fine, exact profiler
+	hull                []geom.Vec2 // convex hull of the lined area
+	margin              float64     // line extension beyond the hull (m)
+	overlap             float64     // added at each end of both sides (m)
+	coarseLines         int
+	fineLines           int
+	exactLines          int
+}
+
+const (
+	// coarseStepDeg is the angle step of the first scan: a sheet's area
+	// varies smoothly with θ between the hull's edge directions, and local
+	// minima closer than this merge into one valley that refinement follows.
+	coarseStepDeg = 2.0
+	// refineTolDeg ends the golden-section search on the angle: a sheet
+	// 30 m long turned by 0.01° moves its corner by 5 mm, and the area is
+	// flat (second order) at a minimum.
+	refineTolDeg = 0.01
+	// refineCandidates is how many local minima of the coarse scan are
+	// refined.
+	refineCandidates = 3
+)
+
+// sheetFit is the measured sheet: developed lengths along and across the
+// angle (without overlap), the angle in degrees.
+type sheetFit struct {
+	along, across, angleDeg float64
+}
+
+func (s *sheetSearch) area(p profiler, lines int, refine bool, deg float64) (float64, float64, float64) {
+	th := deg * math.Pi / 180
+	a := longestSection(p, s.hull, th, lines, refine, s.margin)
+	c := longestSection(p, s.hull, th+math.Pi/2, lines, refine, s.margin)
+	return (a + 2*s.overlap) * (c + 2*s.overlap), a, c
+}
+
+func (s *sheetSearch) run(extra []float64) sheetFit {
+	// 1. Coarse scan.
+	nc := int(math.Round(180 / coarseStepDeg))
+	f := make([]float64, nc)
+	for j := range nc {
+		f[j] = longestSection(s.coarse, s.hull, float64(j)*coarseStepDeg*math.Pi/180, s.coarseLines, false, s.margin)
+	}
+	half := nc / 2
+	area := make([]float64, half)
+	for j := range half {
+		area[j] = (f[j] + 2*s.overlap) * (f[j+half] + 2*s.overlap)
+	}
+	// Local minima of the circular sequence (period 90°), best first.
+	var minima []int
+	for j := range half {
+		l, r := area[(j+half-1)%half], area[(j+1)%half]
+		if area[j] <= l && area[j] <= r {
+			minima = append(minima, j)
+		}
+	}
+	sortByArea(minima, area)
+	if len(minima) > refineCandidates {
+		minima = minima[:refineCandidates]
+	}
+	// 2. Refine on the raster.
+	cands := append([]float64(nil), extra...)
+	for _, j := range minima {
+		lo := float64(j)*coarseStepDeg - coarseStepDeg
+		hi := float64(j)*coarseStepDeg + coarseStepDeg
+		g := func(d float64) float64 {
+			a, _, _ := s.area(s.fine, s.fineLines, true, d)
+			return a
+		}
+		x1, x2 := hi-invPhi*(hi-lo), lo+invPhi*(hi-lo)
+		f1, f2 := g(x1), g(x2)
+		for hi-lo > refineTolDeg {
+			if f1 <= f2 {
+				hi, x2, f2 = x2, x1, f1
+				x1 = hi - invPhi*(hi-lo)
+				f1 = g(x1)
+			} else {
+				lo, x1, f1 = x1, x2, f2
+				x2 = lo + invPhi*(hi-lo)
+				f2 = g(x2)
+			}
+		}
+		if f1 <= f2 {
+			cands = append(cands, x1)
+		} else {
+			cands = append(cands, x2)
+		}
+	}
+	// 3. Measure the candidates exactly.
+	best := sheetFit{}
+	bestArea := math.Inf(1)
+	for _, d := range cands {
+		d = normAngle(d)
+		a, along, across := s.area(s.exact, s.exactLines, true, d)
+		if a < bestArea*(1-tieRel) {
+			bestArea = a
+			best = sheetFit{along: along, across: across, angleDeg: d}
+		}
+	}
+	return best
+}
+
+// tieRel is the relative difference in sheet area below which two
+// candidate angles count as equal and the earlier one (the rim rectangle's
+// direction) is kept: 1e-9, far below the 1 mm in 30 m (3e-5) that matters
+// on site and far above round-off.
+const tieRel = 1e-9
+
+func sortByArea(idx []int, area []float64) {
+	for i := 1; i < len(idx); i++ {
+		for j := i; j > 0 && area[idx[j]] < area[idx[j-1]]; j-- {
+			idx[j], idx[j-1] = idx[j-1], idx[j]
+		}
+	}
+}
