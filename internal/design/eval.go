@@ -1,0 +1,237 @@
+package design
+
+import (
+	"math"
+	"runtime"
+	"slices"
+	"sync"
+	"sync/atomic"
+
+	"github.com/dugout-estimating/dugout/internal/geom"
+)
+
+// infCap stands in for an infinite e (no zone reaches the node) in
+// integrals of the water depth, 1e6 m: between a node at a floor and one
+// at +Inf the interpolated water edge then sits within a millionth of the
+// cell from the floor node, which is the step the vertical wall makes.
+const infCap = 1e6
+
+// bandRows is the number of cell rows summed together. Bands are fixed by
+// the lattice alone, and their sums are merged in band order, so results
+// do not depend on the number of workers.
+const bandRows = 32
+
+// berm holds the berm's shape.
+type berm struct{ crest, slope float64 }
+
+// finished returns the finished grade at a node with relative bowl e, rim
+// distance rho and existing ground g, for water level w (see the package
+// comment): the bowl up to the rim; elsewhere the bowl cut into higher
+// ground, or the berm where it stands above both.
+func (zs *zoneSet) finished(w, e, rho, g float64, b berm) float64 {
+	if e <= zs.freeboard {
+		return w + e
+	}
+	bz := w + zs.freeboard - max(0, rho-b.crest)/b.slope
+	return max(bz, min(g, w+e))
+}
+
+// forBands runs fn on every band of cell rows, spread over the workers.
+func forBands(ncellRows int, fn func(band, j0, j1 int)) {
+	nb := (ncellRows + bandRows - 1) / bandRows
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range min(runtime.GOMAXPROCS(0), max(nb, 1)) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for {
+				b := int(next.Add(1) - 1)
+				if b >= nb {
+					return
+				}
+				fn(b, b*bandRows, min((b+1)*bandRows, ncellRows))
+			}
+		}()
+	}
+	wg.Wait()
+}
+
+// splitsIn returns the splits whose cells lie in cell rows [j0, j1).
+func (fd *field) splitsIn(j0, j1 int) []split {
+	nx := fd.lat.NX
+	lo, _ := slices.BinarySearchFunc(fd.splits, j0*nx, func(s split, c int) int { return s.cell - c })
+	hi, _ := slices.BinarySearchFunc(fd.splits, j1*nx, func(s split, c int) int { return s.cell - c })
+	return fd.splits[lo:hi]
+}
+
+// cellNodes returns the node indices (00, 10, 01, 11) of cell c.
+func (fd *field) cellNodes(c int) [4]int {
+	nx := fd.lat.NX
+	return [4]int{c, c + 1, c + nx, c + nx + 1}
+}
+
+// triSlots are the node slots of the cell's two triangles.
+var triSlots = [2][3]int{{0, 1, 3}, {0, 3, 2}}
+
+// volumes are the earthwork results at one water level.
+type volumes struct {
+	cut, fill, cutArea, fillArea float64
+	zoneCut, zoneFill            []float64
+}
+
+type bandSums struct {
+	cut, fill, cutA, fillA geom.Sum
+	zc, zf                 []geom.Sum
+}
+
+// evaluate fills d with the finished grade for water level w and returns
+// the cut and fill against existing ground g (NaN outside the survey;
+// such cells are skipped).
+func (fd *field) evaluate(w float64, g, d []float64, b berm) volumes {
+	zs := fd.zs
+	l := fd.lat
+	forBands(l.NY, func(_, j0, j1 int) {
+		for k := j0 * l.NX; k < j1*l.NX; k++ {
+			d[k] = zs.finished(w, fd.e[k], fd.rho[k], g[k], b)
+		}
+	})
+	nb := (l.NY - 1 + bandRows - 1) / bandRows
+	sums := make([]bandSums, nb)
+	area := l.CellArea()
+	forBands(l.NY-1, func(band, j0, j1 int) {
+		s := &sums[band]
+		s.zc, s.zf = make([]geom.Sum, len(zs.z)), make([]geom.Sum, len(zs.z))
+		var buf clipBuf
+		sp := fd.splitsIn(j0, j1)
+		var f, fin [4]float64
+		for cj := j0; cj < j1; cj++ {
+			for ci := 0; ci+1 < l.NX; ci++ {
+				c := ci + cj*l.NX
+				nd := fd.cellNodes(c)
+				nan := false
+				zero := true
+				for m, k := range nd {
+					f[m] = g[k] - d[k]
+					nan = nan || math.IsNaN(f[m])
+					zero = zero && f[m] == 0
+				}
+				isSplit := len(sp) > 0 && sp[0].cell == c
+				if nan || (zero && !isSplit) {
+					if isSplit {
+						sp = sp[1:]
+					}
+					continue
+				}
+				var own [4]int32
+				for m, k := range nd {
+					own[m] = fd.volOwner(k)
+				}
+				for t := range 2 {
+					var pos, neg, pa, na float64
+					if isSplit {
+						x := &sp[0]
+						for m, k := range nd {
+							f[m] = g[k] - zs.finished(w, x.eOut[m], fd.rho[k], g[k], b)
+							fin[m] = g[k] - zs.finished(w, x.eIn[m], fd.rho[k], g[k], b)
+						}
+						p0, n0, pa0, na0 := triParts(t, area, &f)
+						p1, n1, pa1, na1 := polyParts(t, area, &f, x.part[t], &buf)
+						p2, n2, pa2, na2 := polyParts(t, area, &fin, x.part[t], &buf)
+						pos, neg = p0-p1+p2, n0-n1+n2
+						pa, na = pa0-pa1+pa2, na0-na1+na2
+					} else {
+						pos, neg, pa, na = triParts(t, area, &f)
+					}
+					s.cut.Add(pos)
+					s.fill.Add(neg)
+					s.cutA.Add(pa)
+					s.fillA.Add(na)
+					for _, m := range triSlots[t] {
+						s.zc[own[m]].Add(pos / 3)
+						s.zf[own[m]].Add(neg / 3)
+					}
+				}
+				if isSplit {
+					sp = sp[1:]
+				}
+			}
+		}
+	})
+	var v volumes
+	var cut, fill, ca, fa geom.Sum
+	zc, zf := make([]geom.Sum, len(zs.z)), make([]geom.Sum, len(zs.z))
+	for i := range sums {
+		s := &sums[i]
+		cut.AddSum(s.cut)
+		fill.AddSum(s.fill)
+		ca.AddSum(s.cutA)
+		fa.AddSum(s.fillA)
+		for z := range s.zc {
+			zc[z].AddSum(s.zc[z])
+			zf[z].AddSum(s.zf[z])
+		}
+	}
+	v.cut, v.fill, v.cutArea, v.fillArea = cut.Value(), fill.Value(), ca.Value(), fa.Value()
+	v.zoneCut, v.zoneFill = make([]float64, len(zs.z)), make([]float64, len(zs.z))
+	for z := range zc {
+		v.zoneCut[z], v.zoneFill[z] = zc[z].Value(), zf[z].Value()
+	}
+	return v
+}
+
+// water returns the water volume ∬ (W − E)⁺ = ∬ (−e)⁺ and the water
+// surface area, which do not depend on W.
+func (fd *field) water() (vol, area float64) {
+	l := fd.lat
+	nb := (l.NY - 1 + bandRows - 1) / bandRows
+	vs, as := make([]geom.Sum, nb), make([]geom.Sum, nb)
+	ca := l.CellArea()
+	neg := func(e float64) float64 { return -min(e, infCap) }
+	forBands(l.NY-1, func(band, j0, j1 int) {
+		var buf clipBuf
+		sp := fd.splitsIn(j0, j1)
+		var f, fin [4]float64
+		for cj := j0; cj < j1; cj++ {
+			for ci := 0; ci+1 < l.NX; ci++ {
+				c := ci + cj*l.NX
+				nd := fd.cellNodes(c)
+				any := false
+				for m, k := range nd {
+					f[m] = neg(fd.e[k])
+					any = any || f[m] > 0
+				}
+				isSplit := len(sp) > 0 && sp[0].cell == c
+				if isSplit {
+					x := &sp[0]
+					sp = sp[1:]
+					for m := range nd {
+						f[m], fin[m] = neg(x.eOut[m]), neg(x.eIn[m])
+					}
+					for t := range 2 {
+						p0, _, a0, _ := triParts(t, ca, &f)
+						p1, _, a1, _ := polyParts(t, ca, &f, x.part[t], &buf)
+						p2, _, a2, _ := polyParts(t, ca, &fin, x.part[t], &buf)
+						vs[band].Add(p0 - p1 + p2)
+						as[band].Add(a0 - a1 + a2)
+					}
+					continue
+				}
+				if !any {
+					continue
+				}
+				for t := range 2 {
+					p, _, a, _ := triParts(t, ca, &f)
+					vs[band].Add(p)
+					as[band].Add(a)
+				}
+			}
+		}
+	})
+	var v, a geom.Sum
+	for i := range vs {
+		v.AddSum(vs[i])
+		a.AddSum(as[i])
+	}
+	return v.Value(), a.Value()
+}

@@ -1,0 +1,273 @@
+package design
+
+import (
+	"fmt"
+	"math"
+
+	"github.com/dugout-estimating/dugout/internal/geom"
+	"github.com/dugout-estimating/dugout/internal/grid"
+)
+
+// rimCells is the number of lattice cells across the rim set used to
+// trace the rim line for LevelAuto.
+const rimCells = 512
+
+// autoLevel returns the water level whose rim sits at the lowest existing
+// ground along the rim line {e = freeboard}, which does not depend on W.
+// The rim line is found where it crosses the lines of a lattice of about
+// rimCells cells across the rim set (crossings interpolated between the
+// exact node values), and along the outlines of vertical-walled zones
+// sampled at the same spacing; the ground is read at those points. For
+// smooth ground the minimum is then found to within |∇G|·h²/(2r) on a rim
+// arc of radius r and exactly on straight runs; on a TIN, to within
+// |∇G|·h where the minimum falls on a TIN edge.
+func (b *builder) autoLevel() (float64, error) {
+	if b.autoW != nil {
+		return *b.autoW, nil
+	}
+	zs := b.zs
+	box := zs.rimBox()
+	h := math.Exp2(math.Floor(math.Log2(max(box.Width(), box.Height()) / rimCells)))
+	lat, err := grid.NewLattice(box.Expand(2*h), h)
+	if err != nil {
+		return 0, err
+	}
+	fd := newField(zs, lat)
+	f := zs.freeboard
+	lowest, at := math.Inf(1), geom.Vec2{}
+	off := geom.EmptyBox()
+	visit := func(p geom.Vec2) {
+		z, ok := b.g.Elevation(p.X, p.Y)
+		if !ok || math.IsNaN(z) {
+			off = off.Extend(p)
+			return
+		}
+		if z < lowest {
+			lowest, at = z, p
+		}
+	}
+	vertical := func(k int) bool {
+		o := fd.own[k]
+		return o >= 0 && zs.z[o].kind == kindVertical
+	}
+	edge := func(k, m int) {
+		a, c := fd.e[k]-f, fd.e[m]-f
+		if (a <= 0) == (c <= 0) || math.IsInf(a, 0) || math.IsInf(c, 0) || vertical(k) || vertical(m) {
+			return
+		}
+		t := a / (a - c)
+		p := lat.Node(k%lat.NX, k/lat.NX).Lerp(lat.Node(m%lat.NX, m/lat.NX), t)
+		visit(p)
+	}
+	for j := 0; j < lat.NY; j++ {
+		for i := 0; i < lat.NX; i++ {
+			k := lat.Index(i, j)
+			if i+1 < lat.NX {
+				edge(k, k+1)
+			}
+			if j+1 < lat.NY {
+				edge(k, k+lat.NX)
+			}
+		}
+	}
+	for v := range zs.z {
+		z := &zs.z[v]
+		if z.kind != kindVertical {
+			continue
+		}
+		n := len(z.floor.pts)
+		for k := range z.floor.pts {
+			a, c := z.floor.pts[k], z.floor.pts[(k+1)%n]
+			steps := max(1, int(math.Ceil(a.Distance(c)/h)))
+			for s := range steps {
+				p := a.Lerp(c, float64(s)/float64(steps))
+				if zs.relEx(p, v, -1) > f {
+					visit(p)
+				}
+			}
+		}
+	}
+	if !off.IsEmpty() {
+		return 0, fmt.Errorf("auto water level: %w", &OffSurveyError{Box: off, InBowl: true, BeyondM: math.NaN()})
+	}
+	if math.IsInf(lowest, 1) {
+		return 0, fmt.Errorf("%w: auto water level: no rim line found", ErrParams)
+	}
+	_ = at
+	w := lowest - f
+	b.autoW = &w
+	return w, nil
+}
+
+// balanceTol is the water-level tolerance of the balance search, 0.01 mm:
+// far below survey accuracy, and cut and fill change by only the water
+// area times it.
+const balanceTol = 1e-5
+
+// balance finds, on a lattice of cell h, the water level at which
+// FillPerCut × cut equals fill. k·cut − fill decreases as W rises (every
+// node's finished grade rises with W), so a sign change brackets a single
+// root, which Brent's method finds. The first lattice searches from the
+// auto level (rim at the lowest ground on the rim line, where there is no
+// berm) upward to the level that puts the deepest floor at the highest
+// ground of the work area (no cut is left there); finer lattices search
+// near the previous answer.
+func (b *builder) balance(h float64, prev *level) (*level, error) {
+	k := b.p.FillPerCut
+	var lv *level
+	eval := func(w float64) (float64, error) {
+		var err error
+		lv, err = b.evalAt(lv, h, w)
+		if err != nil {
+			return 0, fmt.Errorf("%w: at water level %.3f m: %w", ErrNoBalance, w, err)
+		}
+		return k*lv.v.cut - lv.v.fill, nil
+	}
+	var lo, hi, flo, fhi float64
+	if prev == nil {
+		w0, err := b.autoLevel()
+		if err != nil {
+			return nil, fmt.Errorf("%w: the search starts at the auto level: %w", ErrNoBalance, err)
+		}
+		if flo, err = eval(w0); err != nil {
+			return nil, err
+		}
+		if flo <= 0 {
+			if lv.v.cut == 0 {
+				return nil, fmt.Errorf("%w: the design digs nothing even with the rim at the lowest ground on its rim line (%.3f m)", ErrNoBalance, w0+b.zs.freeboard)
+			}
+			return nil, fmt.Errorf("%w: with the rim at the lowest ground on its rim line (%.3f m) the fill, %.3f m³, already exceeds the reused cut, %.3f m³ × %g; the ground inside the pond is too low for a balanced design",
+				ErrNoBalance, w0+b.zs.freeboard, lv.v.fill, lv.v.cut, k)
+		}
+		lo = w0
+		top := lv.gmax + b.zs.maxDepth
+		step := max(0.05, b.zs.maxDepth/4)
+		for {
+			hi = min(lo+step, top)
+			if fhi, err = eval(hi); err != nil {
+				return nil, err
+			}
+			if fhi < 0 {
+				break
+			}
+			if hi >= top {
+				return nil, fmt.Errorf("%w: even with the deepest floor at the highest ground (water level %.3f m) the reused cut is not below the fill", ErrNoBalance, hi)
+			}
+			lo, flo = hi, fhi
+			step *= 2
+			top = max(top, lv.gmax+b.zs.maxDepth)
+		}
+	} else {
+		d := max(0.005, 4*math.Abs(prev.w-prev.wPrev()))
+		var err error
+		for {
+			lo, hi = prev.w-d, prev.w+d
+			if flo, err = eval(lo); err != nil {
+				return nil, err
+			}
+			if fhi, err = eval(hi); err != nil {
+				return nil, err
+			}
+			if flo >= 0 && fhi <= 0 {
+				break
+			}
+			if d > 100 {
+				return nil, fmt.Errorf("%w: lost the bracket near %.3f m", ErrNoBalance, prev.w)
+			}
+			d *= 4
+		}
+	}
+	var ferr error
+	w := brent(func(w float64) float64 {
+		v, err := eval(w)
+		if err != nil && ferr == nil {
+			ferr = err
+		}
+		return v
+	}, lo, hi, flo, fhi, balanceTol)
+	if ferr != nil {
+		return nil, ferr
+	}
+	if _, err := eval(w); err != nil {
+		return nil, err
+	}
+	lv.wFound = w
+	if prev != nil {
+		lv.wBefore = prev.w
+	} else {
+		lv.wBefore = math.NaN()
+	}
+	return lv, nil
+}
+
+func (lv *level) wPrev() float64 {
+	if lv.wBefore != lv.wBefore { // NaN: first level
+		return lv.w + 0.01
+	}
+	return lv.wBefore
+}
+
+// brent returns a zero of f in [a, b], where f(a) = fa and f(b) = fb have
+// opposite signs, to within tol, by Brent's method (R. P. Brent,
+// Algorithms for Minimization without Derivatives, 1973, ch. 4, procedure
+// zero): inverse quadratic or secant steps, falling back to bisection.
+func brent(f func(float64) float64, a, b, fa, fb, tol float64) float64 {
+	if fa == 0 {
+		return a
+	}
+	if fb == 0 {
+		return b
+	}
+	c, fc := a, fa
+	d := b - a
+	e := d
+	for range 200 {
+		if (fb > 0) == (fc > 0) {
+			c, fc = a, fa
+			d = b - a
+			e = d
+		}
+		if math.Abs(fc) < math.Abs(fb) {
+			a, b, c = b, c, b
+			fa, fb, fc = fb, fc, fb
+		}
+		t := 2*0x1p-52*math.Abs(b) + tol/2
+		m := (c - b) / 2
+		if math.Abs(m) <= t || fb == 0 {
+			return b
+		}
+		if math.Abs(e) >= t && math.Abs(fa) > math.Abs(fb) {
+			s := fb / fa
+			var p, q float64
+			if a == c {
+				p, q = 2*m*s, 1-s
+			} else {
+				q0, r := fa/fc, fb/fc
+				p = s * (2*m*q0*(q0-r) - (b-a)*(r-1))
+				q = (q0 - 1) * (r - 1) * (s - 1)
+			}
+			if p > 0 {
+				q = -q
+			} else {
+				p = -p
+			}
+			if 2*p < 3*m*q-math.Abs(t*q) && p < math.Abs(e*q/2) {
+				e, d = d, p/q
+			} else {
+				d, e = m, m
+			}
+		} else {
+			d, e = m, m
+		}
+		a, fa = b, fb
+		if math.Abs(d) > t {
+			b += d
+		} else if m > 0 {
+			b += t
+		} else {
+			b -= t
+		}
+		fb = f(b)
+	}
+	return b
+}

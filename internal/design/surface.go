@@ -1,0 +1,133 @@
+package design
+
+import (
+	"math"
+
+	"github.com/dugout-estimating/dugout/internal/geom"
+)
+
+// BowlAt returns the bowl E at p, computed exactly from the zones (not
+// from the lattice): +Inf where only vertical-walled zones reach and none
+// holds p.
+func (s *Surface) BowlAt(p geom.Vec2) float64 {
+	e, _, _ := s.zs.rel(p, -1)
+	return s.WaterLevelM + e
+}
+
+// FinishedAt returns the finished grade D at (x, y), interpolated on the
+// lattice; ok is false outside the work area.
+func (s *Surface) FinishedAt(x, y float64) (float64, bool) {
+	return s.Lattice.Interpolate(s.D, geom.Vec2{X: x, Y: y})
+}
+
+// Owner returns the zone (index into Params.Zones) whose bowl gives E at
+// lattice node i, or −1 where E is above the rim (outside the bowl).
+// Overlapping zones: the lowest bowl wins, ties to the lower index.
+func (s *Surface) Owner(i int) int {
+	if !(s.fd.e[i] <= s.zs.freeboard) {
+		return -1
+	}
+	return int(s.fd.own[i])
+}
+
+// Mesh returns the finished grade over the work area as a triangle mesh
+// (two triangles per lattice cell). A vertical wall shows in it as a band
+// one cell wide; the volumes are computed with the wall exact.
+func (s *Surface) Mesh() geom.TriMesh { return s.Lattice.Mesh(s.D, nil) }
+
+// DiffMesh returns z = D − G over the surveyed cells of the work area:
+// positive in fill, negative in cut, for cut and fill depth contours.
+func (s *Surface) DiffMesh() geom.TriMesh {
+	z := make([]float64, len(s.D))
+	for k := range z {
+		z[k] = s.D[k] - s.G[k]
+	}
+	return s.Lattice.Mesh(z, nil)
+}
+
+// BowlMesh returns the bowl E over the lined area {E ≤ R}, for the liner
+// takeoff: lattice triangles, with those the rim line crosses clipped
+// exactly along the interpolated level E = R (clip points on a lattice
+// edge are shared by the triangles on both sides). Nodes where E is +Inf
+// (just outside a vertical wall) are taken at the rim, so a vertical wall
+// shows as a band one cell wide running from its floor up to the rim;
+// its 3-D area approaches the wall's as the cell shrinks.
+func (s *Surface) BowlMesh() geom.TriMesh {
+	l := s.Lattice
+	r := s.RimM
+	z := func(k int) float64 {
+		if math.IsInf(s.E[k], 1) {
+			return r
+		}
+		return s.E[k]
+	}
+	var m geom.TriMesh
+	nodeV := map[int]int32{}
+	clipV := map[[2]int]int32{}
+	vert := func(k int) int32 {
+		if v, ok := nodeV[k]; ok {
+			return v
+		}
+		p := l.Node(k%l.NX, k/l.NX)
+		v := int32(len(m.V))
+		m.V = append(m.V, geom.Vec3{X: p.X, Y: p.Y, Z: z(k)})
+		nodeV[k] = v
+		return v
+	}
+	cut := func(a, b int) int32 {
+		key := [2]int{min(a, b), max(a, b)}
+		if v, ok := clipV[key]; ok {
+			return v
+		}
+		za, zb := z(a), z(b)
+		t := (r - za) / (zb - za)
+		if t == 0 {
+			return vert(a)
+		}
+		pa, pb := l.Node(a%l.NX, a/l.NX), l.Node(b%l.NX, b/l.NX)
+		p := pa.Lerp(pb, t)
+		v := int32(len(m.V))
+		m.V = append(m.V, geom.Vec3{X: p.X, Y: p.Y, Z: r})
+		clipV[key] = v
+		return v
+	}
+	for cj := 0; cj+1 < l.NY; cj++ {
+		for ci := 0; ci+1 < l.NX; ci++ {
+			c := ci + cj*l.NX
+			nd := [4]int{c, c + 1, c + l.NX, c + l.NX + 1}
+			for t := range 2 {
+				tri := [3]int{nd[triSlots[t][0]], nd[triSlots[t][1]], nd[triSlots[t][2]]}
+				finite := false
+				for _, k := range tri {
+					finite = finite || s.E[k] <= r
+				}
+				if !finite {
+					continue
+				}
+				// Clip the triangle to z ≤ r (Sutherland–Hodgman on one
+				// level), keeping lattice-edge keys for shared vertices.
+				var poly [4]int32
+				n := 0
+				for e := range 3 {
+					a, b := tri[e], tri[(e+1)%3]
+					ina, inb := z(a) <= r, z(b) <= r
+					if ina {
+						poly[n] = vert(a)
+						n++
+					}
+					if ina != inb {
+						poly[n] = cut(a, b)
+						n++
+					}
+				}
+				for q := 1; q+1 < n; q++ {
+					a, b, c := poly[0], poly[q], poly[q+1]
+					if geom.PlanArea(m.V[a], m.V[b], m.V[c]) > 0 {
+						m.T = append(m.T, a, b, c)
+					}
+				}
+			}
+		}
+	}
+	return m
+}
