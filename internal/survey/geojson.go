@@ -3,7 +3,9 @@ package survey
 import (
 	"bytes"
 	"encoding/json"
+	"errors"
 	"fmt"
+	"io"
 	"math"
 	"strconv"
 	"strings"
@@ -169,7 +171,7 @@ func decodeGeoJSON(path string, data []byte) ([]gjFeature, string, error) {
 	if _, err := dec.Token(); err != nil {
 		return nil, "", syntax(err)
 	}
-	if _, err := dec.Token(); err == nil {
+	if _, err := dec.Token(); !errors.Is(err, io.EOF) {
 		return nil, "", perr(path, lineAt(int(dec.InputOffset())), "", ErrSyntax, "text after the GeoJSON object")
 	}
 	switch typ {
@@ -216,13 +218,7 @@ func rawOrNull(r json.RawMessage) json.RawMessage {
 	return r
 }
 
-func asSyntax(err error, target **json.SyntaxError) bool {
-	se, ok := err.(*json.SyntaxError) //nolint:errorlint // json returns it unwrapped
-	if ok {
-		*target = se
-	}
-	return ok
-}
+func asSyntax(err error, target **json.SyntaxError) bool { return errors.As(err, target) }
 
 // skipSpace returns the offset of the first non-space byte at or after
 // off, skipping a separating comma.

@@ -109,3 +109,12 @@ func checkInvariants(tb testing.TB, s *Set, allowMissingZ bool) {
 		tb.Fatalf("Summary().Count = %d, want %d", sum.Count, len(s.Points))
 	}
 }
+
+func mustReadFile(tb testing.TB, path string) []byte {
+	tb.Helper()
+	b, err := os.ReadFile(path)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return b
+}

@@ -2,7 +2,6 @@ package survey
 
 import (
 	"errors"
-	"fmt"
 	"io/fs"
 	"math"
 	"strconv"
@@ -35,12 +34,17 @@ func unitName(m float64) string {
 	return fmtNum(m) + " m units"
 }
 
-// lasError passes on I/O errors and wraps the others as format errors.
+// lasError passes on I/O and option errors, and turns the errors about
+// the file into a *ParseError (keeping the las sentinel in the chain).
 func lasError(path string, err error) error {
 	if errors.Is(err, fs.ErrNotExist) || errors.Is(err, fs.ErrPermission) || errors.Is(err, las.ErrOptions) {
 		return err
 	}
-	return &ParseError{File: path, Err: fmt.Errorf("%w: %w", ErrFormat, err)}
+	var fe *las.FileError
+	if errors.As(err, &fe) {
+		return &ParseError{File: path, Field: fe.Field, Err: fe.Err}
+	}
+	return &ParseError{File: path, Err: err}
 }
 
 // readLAS reads a LAS file through package las. Coordinates stay in file

@@ -154,7 +154,7 @@ const sniffSample = 50
 
 // sniffDelimiter chooses the field separator of a delimited file from its
 // first lines. A candidate qualifies when it splits every sampled line into
-// at least two fields; among tab, semicolon and comma the first that gives
+// at least two fields (lines with a broken quote are not counted); among tab, semicolon and comma the first that gives
 // every line the same field count wins (semicolon before comma, because
 // files separated by semicolons are written where the comma is the decimal
 // mark), else the first that qualifies at all; white space is the fallback.
@@ -167,7 +167,10 @@ func sniffDelimiter(lines []textLine) rune {
 		qualifies := true
 		for _, l := range sample {
 			f, ok := splitFields(l.text, d)
-			if !ok || len(f) < 2 {
+			if !ok {
+				continue // a broken quote is reported when the row is read
+			}
+			if len(f) < 2 {
 				qualifies = false
 				break
 			}
