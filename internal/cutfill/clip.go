@@ -2,9 +2,9 @@ package cutfill
 
 import (
 	"math"
-	"math/big"
 
 	"github.com/dugout-estimating/dugout/internal/geom"
+	"github.com/dugout-estimating/dugout/internal/robust"
 )
 
 // maxPolyVerts bounds the vertices of an overlay cell. A triangle clipped by
@@ -165,25 +165,6 @@ func orientFloat(a, b, c geom.Vec2) (det, bound float64) {
 }
 
 // orient returns +1 when abc turn counter-clockwise, −1 clockwise and 0 when
-// they are collinear, exactly: a floating-point filter with the bound above,
-// and rational arithmetic when the filter cannot decide.
-func orient(a, b, c geom.Vec2) int {
-	det, bound := orientFloat(a, b, c)
-	switch {
-	case det > bound:
-		return 1
-	case det < -bound:
-		return -1
-	}
-	return orientExact(a, b, c)
-}
-
-func orientExact(a, b, c geom.Vec2) int {
-	r := func(v float64) *big.Rat { return new(big.Rat).SetFloat64(v) }
-	bax := new(big.Rat).Sub(r(b.X), r(a.X))
-	cay := new(big.Rat).Sub(r(c.Y), r(a.Y))
-	bay := new(big.Rat).Sub(r(b.Y), r(a.Y))
-	cax := new(big.Rat).Sub(r(c.X), r(a.X))
-	l := new(big.Rat).Mul(bax, cay)
-	return l.Cmp(new(big.Rat).Mul(bay, cax))
-}
+// they are collinear, exactly (Shewchuk's adaptive predicate, package
+// robust). It decides the topology of boundary rings.
+func orient(a, b, c geom.Vec2) int { return int(robust.Orient2D(a, b, c)) }
