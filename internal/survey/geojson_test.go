@@ -118,4 +118,3 @@ func TestReadGeoJSON_Bad(t *testing.T) {
 		t.Errorf("swapped lon/lat error = %v, want it to say so", err)
 	}
 }
-
