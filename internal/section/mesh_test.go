@@ -42,7 +42,6 @@ func TestAlongMesh_NoSamplingError(t *testing.T) {
 	m := gridMesh(0, 0, 10, 10, 8, 9, func(x, y float64) float64 { return rng.Float64() * 3 }, rng, 0.2)
 	path := geom.Polyline{{X: 0.3, Y: 0.2}, {X: 9.1, Y: 6.7}, {X: 4.4, Y: 9.9}, {X: 0.1, Y: 3.3}}
 	c, z := AlongMesh(path, m)
-	p := Profile{Chainage: c}
 	xy := pointsAt(path, c)
 	s := meshSampler{m}
 	for j := 0; j+1 < len(c); j++ {
@@ -59,7 +58,6 @@ func TestAlongMesh_NoSamplingError(t *testing.T) {
 			t.Fatalf("sample %d at %v: z %g, mesh %g", j, q, z[j], got)
 		}
 	}
-	_ = p
 }
 
 // pointsAt returns the plan positions at the given chainages along path.
@@ -190,4 +188,35 @@ func FuzzAlongMesh(f *testing.F) {
 			}
 		}
 	})
+}
+
+// TestAlongMesh_Cone: a cone z = r as a fan of 2n triangles around its apex
+// is exact along the radial lines through its rim vertices, so a section
+// through the apex and two opposite rim vertices is z = |r| (analytic), and
+// between samples the profile is straight.
+func TestAlongMesh_Cone(t *testing.T) {
+	const n, radius = 12, 4.0
+	apex := geom.Vec2{X: 1, Y: -2}
+	m := geom.TriMesh{V: []geom.Vec3{{X: apex.X, Y: apex.Y}}}
+	for i := range 2 * n {
+		a := math.Pi * float64(i) / n
+		m.V = append(m.V, geom.Vec3{X: apex.X + radius*math.Cos(a), Y: apex.Y + radius*math.Sin(a), Z: radius})
+	}
+	for i := range 2 * n {
+		m.T = append(m.T, 0, int32(1+i), int32(1+(i+1)%(2*n)))
+	}
+	for _, k := range []int{0, 3, 7} { // through rim vertices k and k + n
+		a := math.Pi * float64(k) / n
+		d := geom.Vec2{X: math.Cos(a), Y: math.Sin(a)}
+		path := geom.Polyline{apex.Sub(d.Scale(radius)), apex.Add(d.Scale(radius))}
+		c, z := AlongMesh(path, m)
+		for j := range c {
+			if want := math.Abs(c[j] - radius); !closeAbs(z[j], want, 1e-12) {
+				t.Errorf("direction %d: z at chainage %g = %.15g, want |r| = %.15g", k, c[j], z[j], want)
+			}
+		}
+		if len(c) < 3 || !closeAbs(c[len(c)-1], 2*radius, 1e-12) {
+			t.Errorf("direction %d: chainage %v, want rim, apex, rim", k, c)
+		}
+	}
 }
