@@ -152,7 +152,7 @@ func posNeg(area, a, b, c float64) (pos, neg float64) {
 // two products and ε = 2⁻⁵³ (Shewchuk, "Adaptive precision floating-point
 // arithmetic and fast robust geometric predicates", Discrete Comput. Geom.
 // 18, 1997, the bound ccwerrboundA).
-var ccwErrBound = (3 + 16*epsilon) * epsilon
+const ccwErrBound = (3 + 16*epsilon) * epsilon
 
 const epsilon = 1.0 / (1 << 53)
 
