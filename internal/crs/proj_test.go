@@ -13,9 +13,10 @@ import (
 	"github.com/dugout-estimating/dugout/internal/reftest"
 )
 
-// Tolerances of the comparisons with PROJ (the brief for this package: 1 mm
-// in grid coordinates, 1e-9° in geographic ones; both implementations use
-// sixth-order Krüger series, so the real agreement is nanometres).
+// Tolerances of the comparisons with PROJ: 1 mm in grid coordinates, 1e-9°
+// (about 0.1 mm) in geographic ones, the accuracy a site estimate needs
+// with a wide margin. Both implementations use sixth-order Krüger series,
+// so the real agreement is nanometres (the test logs it).
 const (
 	projTolM   = 1e-3
 	projTolDeg = 1e-9
@@ -65,9 +66,9 @@ type geoPoint struct {
 	zone     UTM
 }
 
-// projPoints are the cases the brief asks for: both hemispheres, near a zone
-// edge, near the equator, 3° and 5° off the central meridian, plus seeded
-// random points over the UTM domain.
+// projPoints covers both hemispheres, both sides of a zone edge, the
+// equator, points 3° and 5° off the central meridian and the latitude
+// limits, plus seeded random points over the UTM domain.
 func projPoints(tb testing.TB) []geoPoint {
 	pts := []geoPoint{
 		{"eugene_north", -123.0685, 44.0582, UTM{Zone: 10}},

@@ -155,8 +155,8 @@ func TestUTM_Errors(t *testing.T) {
 	}
 }
 
-// TestUTM_RoundTrip is the property the brief asks for: Forward then Inverse
-// returns the input within 1e-9° over the UTM domain (every zone, both
+// TestUTM_RoundTrip checks the property that Forward then Inverse returns
+// the input within 1e-9° over the UTM domain (every zone, both
 // hemispheres, latitudes 80°S–84°N, up to 5° either side of the central
 // meridian, i.e. beyond the zone edges).
 func TestUTM_RoundTrip(t *testing.T) {

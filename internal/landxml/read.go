@@ -116,7 +116,7 @@ func (p *parser) document() error {
 	root := true
 	for {
 		tok, err := p.d.Token()
-		if err == io.EOF {
+		if errors.Is(err, io.EOF) {
 			if root {
 				return &ParseError{Element: "document", Err: fmt.Errorf("%w: empty document", ErrSyntax)}
 			}
@@ -230,7 +230,7 @@ func (p *parser) text(elem string, line int, id string) (string, error) {
 	for {
 		tok, err := p.d.Token()
 		if err != nil {
-			if err == io.EOF {
+			if errors.Is(err, io.EOF) {
 				err = io.ErrUnexpectedEOF
 			}
 			return "", p.syntax(err)

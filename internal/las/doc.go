@@ -1,7 +1,7 @@
 // Package las reads airborne and terrestrial LiDAR point clouds in the ASPRS
 // LAS format, versions 1.2, 1.3 and 1.4 (ASPRS, "LAS Specification",
-// versions 1.2 of 2008, 1.3 R11 of 2009 and 1.4 R15 of 2019), point data
-// record formats 0, 1, 2, 3, 6, 7 and 8.
+// versions 1.2, 1.3 and 1.4 R15), point data record formats 0, 1, 2, 3, 6,
+// 7 and 8.
 //
 // Coordinates are returned as the file stores them: world coordinates in
 // the file's own horizontal and vertical units, after applying the header's

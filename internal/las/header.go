@@ -137,6 +137,9 @@ func (hr headerReader) read(off int64, n int, field string) ([]byte, error) {
 	b := make([]byte, n)
 	// A ReaderAt may return io.EOF together with a full read at the end.
 	if m, err := hr.r.ReadAt(b, off); m < n {
+		if err == nil {
+			err = io.ErrUnexpectedEOF // a ReaderAt must not do this, but be safe
+		}
 		return nil, hr.fail(field, fmt.Errorf("read %d bytes at %d: %w", n, off, err))
 	}
 	return b, nil

@@ -58,8 +58,9 @@ type Options struct {
 	AllClasses bool
 	// ThinCell is the thinning cell size in the file's horizontal units; 0
 	// means no thinning. Cells are half-open squares on a grid anchored at
-	// the header's minimum x and y: cell (i, j) holds
-	// minX + i·c ≤ x < minX + (i+1)·c, and likewise in y.
+	// the header's minimum x and y (at the offset when those are not
+	// finite): cell (i, j) holds minX + i·c ≤ x < minX + (i+1)·c, and
+	// likewise in y.
 	ThinCell float64
 	// Thin picks the point kept per cell. It must be set exactly when
 	// ThinCell > 0.
@@ -406,6 +407,9 @@ func (s *scanner) scan(fn func(rawPoint)) error {
 		n = min(n, left)
 		b := s.buf[:n*uint64(s.reclen)]
 		if m, err := s.r.ReadAt(b, off); m < len(b) {
+			if err == nil {
+				err = io.ErrUnexpectedEOF
+			}
 			return &FileError{File: s.name, Field: "point data records", Err: fmt.Errorf(
 				"%w: read %d bytes at %d: %w", ErrTruncated, len(b), off, err)}
 		}

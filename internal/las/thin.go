@@ -33,8 +33,14 @@ func newThinner(h Header, opt Options) *thinner {
 	if opt.ThinCell == 0 {
 		return nil
 	}
-	return &thinner{mode: opt.Thin, cell: opt.ThinCell, minX: h.Min[0], minY: h.Min[1], zUp: h.Scale[2] > 0,
+	t := &thinner{mode: opt.Thin, cell: opt.ThinCell, minX: h.Min[0], minY: h.Min[1], zUp: h.Scale[2] > 0,
 		index: map[cellKey]int{}}
+	// A header with non-finite bounds (already warned about) anchors the
+	// grid at the offset instead, so that cells stay distinct.
+	if !isFinite(t.minX) || !isFinite(t.minY) {
+		t.minX, t.minY = h.Offset[0], h.Offset[1]
+	}
+	return t
 }
 
 // cellIndex returns floor((v − lo)/cell), clamped to ±2⁶² so that a point
