@@ -135,6 +135,7 @@ type builder struct {
 	berm     berm
 	warnings []string
 	autoW    *float64
+	boxes    map[float64]workArea
 }
 
 func (b *builder) warnf(format string, args ...any) {
@@ -177,7 +178,7 @@ func (b *builder) terrainRange(box geom.Box) (lo, hi float64, ok bool) {
 	if x0 > x1 || y0 > y1 {
 		return 0, 0, false
 	}
-	const n = 129
+	const n = 65
 	h := max(x1-x0, y1-y0) / (n - 1)
 	if h == 0 {
 		h = 1
@@ -198,6 +199,9 @@ func (b *builder) terrainRange(box geom.Box) (lo, hi float64, ok bool) {
 // to the lowest and up to the highest ground sampled in the box, grown
 // until it no longer changes.
 func (b *builder) workBox(w float64) (box geom.Box, gmin, gmax float64, err error) {
+	if r, ok := b.boxes[w]; ok {
+		return r.box, r.gmin, r.gmax, nil
+	}
 	box = b.zs.rimBox()
 	for range 30 {
 		lo, hi, ok := b.terrainRange(box)
@@ -212,7 +216,17 @@ func (b *builder) workBox(w float64) (box geom.Box, gmin, gmax float64, err erro
 		}
 		box = nb
 	}
+	if b.boxes == nil {
+		b.boxes = map[float64]workArea{}
+	}
+	b.boxes[w] = workArea{box, gmin, gmax}
 	return box, gmin, gmax, nil
+}
+
+// workArea is a memoised result of [builder.workBox].
+type workArea struct {
+	box        geom.Box
+	gmin, gmax float64
 }
 
 // build samples the ground and prepares the field on a lattice of cell h

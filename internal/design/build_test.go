@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/dugout-estimating/dugout/internal/geom"
+	"github.com/dugout-estimating/dugout/internal/units"
 )
 
 func relErr(got, want float64) float64 {
@@ -89,5 +90,48 @@ func TestBuild_SteinerFlat(t *testing.T) {
 					relErr(sf.CutM3, steiner(h)), relErr(sf.WaterVolumeM3, steiner(depth)), relErr(sf.WaterAreaM2, wa))
 			})
 		}
+	}
+}
+
+func TestBuild_SharpCorners(t *testing.T) {
+	const ft = units.Foot
+	tests := []struct {
+		name       string
+		L, W, s, h float64 // bottom L × W, slope, cut depth
+		want       float64
+		source     string
+	}{
+		// check-values.md §2c [derived]: V = L W h + s h² (L + W) + (4/3) s² h³.
+		{"rectangle 4x3 1:1", 4, 3, 1, 1.1, 4*3*1.1 + 1*1.1*1.1*7 + 4.0/3*1.1*1.1*1.1, "check-values.md §2c prismoidal"},
+		{"rectangle 6x2.5 2:1", 6, 2.5, 2, 0.8, 6*2.5*0.8 + 2*0.64*8.5 + 4.0/3*4*0.512, "check-values.md §2c prismoidal"},
+		// check-values.md §2c [confirmed]: University of Regina Math Central
+		// worked example, 100 × 70 ft at the surface, 2H:1V, 12 ft deep:
+		// bottom 52 × 22 ft, 44 256 ft³.
+		{"Math Central pond", 52 * ft, 22 * ft, 2, 12 * ft, 44256 * units.CubicFoot, "Math Central (U. Regina) worked example"},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			const ground = 30.0
+			w := ground // water and rim at the ground, so the cut depth is the zone depth
+			p := Params{
+				Zones:       []Zone{{Ring: rect(-tc.L/2+0.013, -tc.W/2-0.007, tc.L/2+0.013, tc.W/2-0.007), DepthM: tc.h, WallSlope: tc.s, Corners: Sharp}},
+				WaterLevelM: w,
+			}
+			sf, err := Build(plane(ground, 0, 0, 100), p)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if e := relErr(sf.CutM3, tc.want); e > 0.001 || sf.FillM3 != 0 {
+				t.Errorf("cut = %.6f m³ (fill %g), want %.6f (%s), error %.2g", sf.CutM3, sf.FillM3, tc.want, tc.source, e)
+			}
+			if e := relErr(sf.WaterVolumeM3, tc.want); e > 0.001 {
+				t.Errorf("water = %.6f m³, want %.6f (%s)", sf.WaterVolumeM3, tc.want, tc.source)
+			}
+			top := (tc.L + 2*tc.s*tc.h) * (tc.W + 2*tc.s*tc.h)
+			if e := relErr(sf.WaterAreaM2, top); e > 0.001 {
+				t.Errorf("water area = %.6f m², want %.6f (top rectangle)", sf.WaterAreaM2, top)
+			}
+			t.Logf("cell %g change %.2g cut err %.2g", sf.CellM, sf.RefineChange, relErr(sf.CutM3, tc.want))
+		})
 	}
 }

@@ -1,0 +1,459 @@
+package design
+
+import (
+	"math"
+
+	"github.com/dugout-estimating/dugout/internal/geom"
+	"github.com/dugout-estimating/dugout/internal/grid"
+)
+
+// Inward offsets (erosions) of a simple polygon, found on a raster and
+// rebuilt exactly.
+//
+// The erosion of O by δ is {p ∈ O : dist(p, ∂O) ≥ δ}. Its boundary is made
+// of the edges' lines moved inward by δ and of arcs of radius δ around the
+// reflex vertices of O. The method:
+//
+//  1. Sample φ = sd − δ on a raster of erodeCells cells across O's box,
+//     where sd is the exact signed distance to ∂O (positive inside). Only
+//     nodes within two cells of the level set get their distance computed
+//     (sd is 1-Lipschitz, so nodes farther off cannot border a crossing).
+//  2. Trace φ = 0 by marching squares (saddles decided by the exact φ at
+//     the cell centre) into closed loops, counter-clockwise.
+//  3. Give each loop vertex the feature of ∂O nearest to it (an edge, or a
+//     vertex when the nearest point is one), and move it onto that
+//     feature's offset curve: it is then exactly on the erosion boundary.
+//  4. Rebuild each loop from its runs of equal feature: a run on an edge is
+//     one straight segment; a run on a vertex is an arc, drawn with chords
+//     of at most arcStep; consecutive runs meet at the exact intersection
+//     of their two curves (line–line, line–circle or circle–circle).
+//
+// The result is exact except for the arcs, whose chords fall inside the
+// true boundary by at most δ·(1 − cos(arcStep/2)) < 0.001·δ. Where a
+// rebuilt loop is not a simple polygon, or its area differs from the
+// traced loop's by more than two raster cells along its length, the
+// projected loop vertices of step 3 are used instead: every vertex still
+// lies on the boundary, and corners are cut by at most one raster cell.
+// Parts narrower than a raster cell can be missed, and loops under four
+// cells across are dropped.
+
+// erodeCells is the raster resolution of [erode], in cells across the
+// larger side of the polygon's box.
+const erodeCells = 1024
+
+// arcStep is the largest angle subtended by one chord of an offset arc,
+// 5° (π/36 rad).
+const arcStep = math.Pi / 36
+
+// erode returns the erosion of the counter-clockwise simple ring r by
+// delta ≥ 0 (m) as zero or more counter-clockwise rings.
+func erode(r geom.Ring, delta float64) []geom.Ring {
+	if delta <= 0 {
+		return []geom.Ring{r}
+	}
+	q := newPolygon(r)
+	bb := q.box
+	hr := max(bb.Width(), bb.Height()) / erodeCells
+	lat, err := grid.NewLattice(bb.Expand(2*hr), hr)
+	if err != nil {
+		return nil // cannot happen: about erodeCells² nodes
+	}
+	phi := erosionField(q, lat, delta)
+	loops := marchLoops(lat, phi, func(p geom.Vec2) float64 { return signedDist(q, p) - delta })
+	var out []geom.Ring
+	for _, loop := range loops {
+		if rr := rebuildLoop(q, loop, delta, hr); rr != nil {
+			out = append(out, rr)
+		}
+	}
+	return out
+}
+
+// signedDist returns the distance from p to ∂q, positive inside.
+func signedDist(q *polygon, p geom.Vec2) float64 {
+	d := q.boundaryDist(p)
+	if q.contains(p) {
+		return d
+	}
+	return -d
+}
+
+// erosionField samples φ = sd − δ; nodes that cannot border the level set
+// get ±far instead of their value.
+func erosionField(q *polygon, l grid.Lattice, delta float64) []float64 {
+	phi := make([]float64, l.Len())
+	rows := newRowIndex(l, q)
+	far := 4 * l.H
+	w := &tileWorker{}
+	all := w.all(len(q.segs))
+	const t = leafSize
+	for tj := 0; tj < l.NY; tj += t {
+		for ti := 0; ti < l.NX; ti += t {
+			i1, j1 := min(ti+t, l.NX), min(tj+t, l.NY)
+			x0, y0 := l.X0+float64(ti)*l.H, l.Y0+float64(tj)*l.H
+			x1, y1 := l.X0+float64(i1-1)*l.H, l.Y0+float64(j1-1)*l.H
+			mark := len(w.arena)
+			cand, lb2, ub2 := w.eucBounds(q, all, x0, y0, x1, y1)
+			lb, ub := math.Sqrt(lb2), math.Sqrt(ub2)
+			// Bounds of sd over the tile, and its sign where uniform.
+			uniform := 0.0 // +1 inside, −1 outside, 0 unknown
+			sdlo, sdhi := -ub, ub
+			if lb > 0 {
+				uniform = -1
+				sdlo, sdhi = -ub, -lb
+				if rows.inside(tj, x0) {
+					uniform = 1
+					sdlo, sdhi = lb, ub
+				}
+			}
+			for j := tj; j < j1; j++ {
+				y := l.Y0 + float64(j)*l.H
+				for i := ti; i < i1; i++ {
+					k := l.Index(i, j)
+					switch {
+					case sdlo-delta > 2*l.H:
+						phi[k] = far
+						continue
+					case sdhi-delta < -2*l.H:
+						phi[k] = -far
+						continue
+					}
+					x := l.X0 + float64(i)*l.H
+					d2 := math.Inf(1)
+					for _, c := range cand {
+						d2 = min(d2, q.segs[c].dist2(x, y))
+					}
+					sd := math.Sqrt(d2)
+					if uniform < 0 || (uniform == 0 && !rows.inside(j, x)) {
+						sd = -sd
+					}
+					phi[k] = sd - delta
+				}
+			}
+			w.arena = w.arena[:mark]
+		}
+	}
+	return phi
+}
+
+// marchLoops traces the closed loops of φ = 0 (φ ≥ 0 inside) by marching
+// squares, each counter-clockwise (inside on the left). center gives the
+// exact φ at a point, for saddle cells. φ must be negative on the
+// lattice's border.
+func marchLoops(l grid.Lattice, phi []float64, center func(geom.Vec2) float64) [][]geom.Vec2 {
+	// Edge ids: 2·k for node k → k+1 (horizontal), 2·k+1 for k → k+NX.
+	point := func(id int) geom.Vec2 {
+		k := id / 2
+		m := k + 1
+		if id%2 == 1 {
+			m = k + l.NX
+		}
+		a, b := phi[k], phi[m]
+		pa, pb := l.Node(k%l.NX, k/l.NX), l.Node(m%l.NX, m/l.NX)
+		return pa.Lerp(pb, a/(a-b))
+	}
+	next := map[int]int{}
+	for cj := 0; cj+1 < l.NY; cj++ {
+		for ci := 0; ci+1 < l.NX; ci++ {
+			k := l.Index(ci, cj)
+			c := [4]int{k, k + 1, k + 1 + l.NX, k + l.NX} // counter-clockwise corners
+			e := [4]int{2 * k, 2*(k+1) + 1, 2*(k+l.NX) + 0, 2*k + 1}
+			var in [4]bool
+			code := 0
+			for m := range 4 {
+				in[m] = phi[c[m]] >= 0
+				if in[m] {
+					code |= 1 << m
+				}
+			}
+			if code == 0 || code == 15 {
+				continue
+			}
+			if code == 5 || code == 10 {
+				joined := center(l.Node(ci, cj).Add(geom.Vec2{X: l.H / 2, Y: l.H / 2})) >= 0
+				switch {
+				case code == 5 && joined:
+					next[e[0]], next[e[2]] = e[1], e[3]
+				case code == 5:
+					next[e[0]], next[e[2]] = e[3], e[1]
+				case joined:
+					next[e[1]], next[e[3]] = e[2], e[0]
+				default:
+					next[e[1]], next[e[3]] = e[0], e[2]
+				}
+				continue
+			}
+			// One run of inside corners: it leaves the cell across the
+			// edge after its last corner and enters across the edge
+			// before its first.
+			var exit, entry int
+			for m := range 4 {
+				if in[m] && !in[(m+1)%4] {
+					exit = e[m]
+				}
+				if !in[m] && in[(m+1)%4] {
+					entry = e[m]
+				}
+			}
+			next[exit] = entry
+		}
+	}
+	var loops [][]geom.Vec2
+	seen := map[int]bool{}
+	for start := range next {
+		if seen[start] {
+			continue
+		}
+		var loop []geom.Vec2
+		for id := start; !seen[id]; {
+			seen[id] = true
+			loop = append(loop, point(id))
+			n, ok := next[id]
+			if !ok {
+				break
+			}
+			id = n
+		}
+		if len(loop) >= 3 {
+			loops = append(loops, loop)
+		}
+	}
+	return loops
+}
+
+// feature names the part of ∂q nearest a point: edge k (k ≥ 0) or vertex
+// v (encoded −v−1).
+type feature int
+
+func nearestFeature(q *polygon, p geom.Vec2) feature {
+	best, bk, bt := math.Inf(1), 0, 0.0
+	for k := range q.segs {
+		s := &q.segs[k]
+		d := s.dist2(p.X, p.Y)
+		if d < best {
+			t := ((p.X-s.ax)*s.dx + (p.Y-s.ay)*s.dy) * s.inv
+			best, bk, bt = d, k, t
+		}
+	}
+	n := len(q.pts)
+	switch {
+	case bt <= 0:
+		return feature(-bk - 1)
+	case bt >= 1:
+		return feature(-((bk + 1) % n) - 1)
+	}
+	return feature(bk)
+}
+
+// project moves p onto the offset curve of f at distance delta.
+func project(q *polygon, f feature, p geom.Vec2, delta float64) geom.Vec2 {
+	if f >= 0 {
+		nx, ny := -q.nx[f], -q.ny[f] // inward normal
+		sd := nx*p.X + ny*p.Y + q.nc[f]
+		return geom.Vec2{X: p.X + (delta-sd)*nx, Y: p.Y + (delta-sd)*ny}
+	}
+	v := q.pts[-f-1]
+	d := p.Sub(v)
+	n := d.Norm()
+	if n == 0 {
+		return p
+	}
+	return v.Add(d.Scale(delta / n))
+}
+
+// junction returns the point where the offset curves of features a and b
+// meet nearest to near; ok is false when they do not meet.
+func junction(q *polygon, a, b feature, delta float64, near geom.Vec2) (geom.Vec2, bool) {
+	if a < 0 && b >= 0 {
+		a, b = b, a
+	}
+	switch {
+	case a >= 0 && b >= 0: // two lines n·p = c + δ·… (inward offsets)
+		n1x, n1y, c1 := -q.nx[a], -q.ny[a], delta-q.nc[a]
+		n2x, n2y, c2 := -q.nx[b], -q.ny[b], delta-q.nc[b]
+		det := n1x*n2y - n1y*n2x
+		if math.Abs(det) < 1e-9 {
+			return geom.Vec2{}, false
+		}
+		return geom.Vec2{X: (c1*n2y - c2*n1y) / det, Y: (n1x*c2 - n2x*c1) / det}, true
+	case a >= 0: // line and circle
+		nx, ny, c := -q.nx[a], -q.ny[a], delta-q.nc[a]
+		v := q.pts[-b-1]
+		// Points v + t·(−ny, nx) + s·(nx, ny) with s = c − n·v on the line.
+		s := c - (nx*v.X + ny*v.Y)
+		r2 := delta*delta - s*s
+		if r2 < 0 {
+			return geom.Vec2{}, false
+		}
+		t := math.Sqrt(r2)
+		base := geom.Vec2{X: v.X + s*nx, Y: v.Y + s*ny}
+		dir := geom.Vec2{X: -ny, Y: nx}
+		p1, p2 := base.Add(dir.Scale(t)), base.Sub(dir.Scale(t))
+		if p1.DistanceSquared(near) <= p2.DistanceSquared(near) {
+			return p1, true
+		}
+		return p2, true
+	default: // two circles of radius δ
+		u, v := q.pts[-a-1], q.pts[-b-1]
+		d := v.Sub(u)
+		l2 := d.Norm2()
+		if l2 == 0 || l2 > 4*delta*delta {
+			return geom.Vec2{}, false
+		}
+		m := u.Add(d.Scale(0.5))
+		t := math.Sqrt(delta*delta - l2/4)
+		dir := geom.Vec2{X: -d.Y, Y: d.X}.Scale(1 / math.Sqrt(l2))
+		p1, p2 := m.Add(dir.Scale(t)), m.Sub(dir.Scale(t))
+		if p1.DistanceSquared(near) <= p2.DistanceSquared(near) {
+			return p1, true
+		}
+		return p2, true
+	}
+}
+
+// rebuildLoop turns a traced loop into an exact ring (see the comment at
+// the top of this file), or nil for a loop too small to keep.
+func rebuildLoop(q *polygon, loop []geom.Vec2, delta, hr float64) geom.Ring {
+	raw := geom.Ring(loop)
+	if math.Abs(raw.Area()) < 16*hr*hr {
+		return nil
+	}
+	n := len(loop)
+	feat := make([]feature, n)
+	proj := make(geom.Ring, n)
+	for i, p := range loop {
+		feat[i] = nearestFeature(q, p)
+		proj[i] = project(q, feat[i], p, delta)
+	}
+	fallback := func() geom.Ring {
+		r := dropCollinear(proj)
+		if c, err := cleanRing(r); err == nil {
+			return c
+		}
+		if c, err := cleanRing(raw); err == nil {
+			return c
+		}
+		return nil
+	}
+	// Start at a change of feature.
+	s := -1
+	for i := range n {
+		if feat[i] != feat[(i+n-1)%n] {
+			s = i
+			break
+		}
+	}
+	if s < 0 {
+		return fallback()
+	}
+	type run struct {
+		f           feature
+		first, last int // indices into loop, cyclic
+	}
+	var runs []run
+	for i := 0; i < n; {
+		j := i
+		for j+1 < n && feat[(s+j+1)%n] == feat[(s+i)%n] {
+			j++
+		}
+		runs = append(runs, run{feat[(s+i)%n], (s + i) % n, (s + j) % n})
+		i = j + 1
+	}
+	nr := len(runs)
+	// Junction between run r and run r+1.
+	jn := make([]geom.Vec2, nr)
+	jok := make([]bool, nr)
+	lim := 8 * hr
+	for r := range runs {
+		a, b := runs[r], runs[(r+1)%nr]
+		near := proj[a.last].Add(proj[b.first]).Scale(0.5)
+		p, ok := junction(q, a.f, b.f, delta, near)
+		if ok && p.Distance(near) <= lim {
+			jn[r], jok[r] = p, true
+		}
+	}
+	var out geom.Ring
+	for r, ru := range runs {
+		start := proj[ru.first]
+		if prev := (r + nr - 1) % nr; jok[prev] {
+			start = jn[prev]
+		}
+		end := proj[ru.last]
+		if jok[r] {
+			end = jn[r]
+		}
+		out = append(out, start)
+		if ru.f < 0 {
+			out = append(out, arcPoints(q.pts[-ru.f-1], start, end, proj, ru.first, ru.last, n)...)
+		}
+		if !jok[r] {
+			out = append(out, end)
+		}
+	}
+	out = dropCollinear(out)
+	c, err := cleanRing(out)
+	if err != nil || math.Abs(c.Area()-math.Abs(raw.Area())) > 2*hr*raw.Perimeter() {
+		return fallback()
+	}
+	return c
+}
+
+// arcPoints returns the interior points of the arc around v from start to
+// end, turning the way the traced run turns, with chords of at most
+// arcStep.
+func arcPoints(v, start, end geom.Vec2, proj geom.Ring, first, last, n int) []geom.Vec2 {
+	a0 := math.Atan2(start.Y-v.Y, start.X-v.X)
+	a1 := math.Atan2(end.Y-v.Y, end.X-v.X)
+	r := start.Distance(v)
+	// Direction of travel from the run's own points (clockwise around a
+	// reflex vertex when they do not say otherwise).
+	turn := 0.0
+	for i := first; i != last; i = (i + 1) % n {
+		p, q := proj[i].Sub(v), proj[(i+1)%n].Sub(v)
+		turn += math.Atan2(p.Cross(q), p.Dot(q))
+	}
+	sweep := a1 - a0
+	if turn >= 0 {
+		for sweep < 0 {
+			sweep += 2 * math.Pi
+		}
+	} else {
+		for sweep > 0 {
+			sweep -= 2 * math.Pi
+		}
+	}
+	steps := int(math.Ceil(math.Abs(sweep) / arcStep))
+	var out []geom.Vec2
+	for k := 1; k < steps; k++ {
+		a := a0 + sweep*float64(k)/float64(steps)
+		out = append(out, geom.Vec2{X: v.X + r*math.Cos(a), Y: v.Y + r*math.Sin(a)})
+	}
+	return out
+}
+
+// dropCollinear removes vertices that lie on the segment between their
+// neighbours (exact test) and repeated vertices.
+func dropCollinear(r geom.Ring) geom.Ring {
+	out := make(geom.Ring, 0, len(r))
+	for _, p := range r {
+		if len(out) > 0 && out[len(out)-1] == p {
+			continue
+		}
+		out = append(out, p)
+	}
+	for len(out) > 1 && out[0] == out[len(out)-1] {
+		out = out[:len(out)-1]
+	}
+	for changed := true; changed && len(out) > 3; {
+		changed = false
+		for i := 0; i < len(out) && len(out) > 3; i++ {
+			a, b, c := out[(i+len(out)-1)%len(out)], out[i], out[(i+1)%len(out)]
+			if orient(a, b, c) == 0 && onSegment(b, a, c) {
+				out = append(out[:i], out[i+1:]...)
+				changed = true
+				i--
+			}
+		}
+	}
+	return out
+}
