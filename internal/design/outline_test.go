@@ -185,4 +185,3 @@ func TestOutline_Errors(t *testing.T) {
 		})
 	}
 }
-
