@@ -97,11 +97,11 @@ func (f *rawFile) missingZ(opt *Options, why string) error {
 	if !opt.AllowMissingZ {
 		return perr(f.info.Path, first, "", ErrNoElevation, "%s: elevations are needed to build a surface", why)
 	}
-	what := "points have"
+	what := plural(n, "point") + " have"
 	if n == 1 {
-		what = "point has"
+		what = "1 point has"
 	}
-	f.warn(first, "%d %s no elevation (%s): they are kept in plan only; surfaces and volumes need elevations", n, what, why)
+	f.warn(first, "%s no elevation (%s): kept in plan only; surfaces and volumes need elevations", what, why)
 	return nil
 }
 

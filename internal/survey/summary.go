@@ -188,11 +188,11 @@ func validationWarnings(sum *Summary) []Warning {
 	in := func(m float64) string { return fmt.Sprintf("%.3f %s", m/u.Metres(), u) }
 	if n := sum.ExactDuplicates; n > 0 {
 		d := firstOf(sum.Duplicates, true)
-		out = append(out, warnf(d.Point.File, d.Point.Line, "%d exact duplicate shot(s); first: %q repeats %q (line %d)", n, d.Point.ID, d.Of.ID, d.Of.Line))
+		out = append(out, warnf(d.Point.File, d.Point.Line, "%s; first: %q repeats %q (line %d)", plural(n, "exact duplicate shot"), d.Point.ID, d.Of.ID, d.Of.Line))
 	}
 	if n := sum.NearDuplicates; n > 0 {
 		d := firstOf(sum.Duplicates, false)
-		out = append(out, warnf(d.Point.File, d.Point.Line, "%d shot(s) within %s of an earlier one; first: %q is %s from %q (line %d)", n, in(sum.DupTolM), d.Point.ID, in(d.PlanDistM), d.Of.ID, d.Of.Line))
+		out = append(out, warnf(d.Point.File, d.Point.Line, "%s within %s of an earlier one; first: %q is %s from %q (line %d)", plural(n, "shot"), in(sum.DupTolM), d.Point.ID, in(d.PlanDistM), d.Of.ID, d.Of.Line))
 	}
 	for i, d := range sum.Conflicts {
 		if i == maxListed {
@@ -228,6 +228,14 @@ func validationWarnings(sum *Summary) []Warning {
 		}
 	}
 	return out
+}
+
+// plural returns "1 shot" or "n shots".
+func plural(n int, noun string) string {
+	if n == 1 {
+		return "1 " + noun
+	}
+	return fmt.Sprintf("%d %ss", n, noun)
 }
 
 func firstOf(ds []Duplicate, exact bool) Duplicate {
