@@ -52,15 +52,13 @@ func depthColour(cut bool, k, n int) string {
 // blue, so that every line stays distinct in greyscale (by width and dash
 // pattern) and none depends on red–green discrimination.
 const (
-	colInk           = "#000000"
-	colExisting      = "#7a7a7a" // existing contours, existing ground
-	colDesign        = "#2b2b2b" // design contours, finished grade
-	colWater         = "#1f5fa8" // water line and water level
-	colWaterFill     = "#dbe9f6" // water in sections
-	colLiner         = "#5e3c99" // liner line in sections (ColorBrewer PuOr's dark purple, from memory)
-	colGridTick      = "#9a9a9a"
-	colPointLabel    = "#404040"
-	colHalo          = "#ffffff"
-	colPaper         = "#ffffff"
-	colCautionBorder = "#000000"
+	colInk        = "#000000"
+	colExisting   = "#7a7a7a" // existing contours, existing ground
+	colDesign     = "#2b2b2b" // design contours, finished grade
+	colWater      = "#1f5fa8" // water line and water level
+	colLiner      = "#5e3c99" // liner line in sections (ColorBrewer PuOr's dark purple, from memory)
+	colGridTick   = "#9a9a9a"
+	colPointLabel = "#404040"
+	colHalo       = "#ffffff"
+	colPaper      = "#ffffff"
 )

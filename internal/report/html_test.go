@@ -403,6 +403,19 @@ func TestHTML_Chromium(t *testing.T) {
 	if n := len(pdfPageRE.FindAll(data, -1)); n < 8 {
 		t.Errorf("PDF has %d pages, want at least 8 (one per part)", n)
 	}
+	// The same page on A4 (the printer's size is kept by @page size: auto,
+	// so force A4 here): every part still gets its page.
+	a4 := filepath.Join(dir, "report-a4.html")
+	html, _ := os.ReadFile(page)
+	if err := os.WriteFile(a4, bytes.Replace(html, []byte("size: auto;"), []byte("size: A4;"), 1), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	pdfA4 := filepath.Join(dir, "report-a4.pdf")
+	runChromium(t, bin, chromiumArgs(t.TempDir(), trap.addr(), "--no-pdf-header-footer", "--print-to-pdf="+pdfA4, "file://"+a4)...)
+	if data, err := os.ReadFile(pdfA4); err != nil || len(pdfPageRE.FindAll(data, -1)) < 8 {
+		t.Errorf("A4 PDF: %v, %d pages; want at least 8", err, len(pdfPageRE.FindAll(data, -1)))
+	}
+
 	if reqs := trap.pageRequests(); len(reqs) > 0 {
 		t.Errorf("the page made %d network requests: %q", len(reqs), reqs)
 	}

@@ -1079,7 +1079,7 @@ func drawTitleBlock(d *svgDoc, p *PlanData, denom float64) {
 	ty += 4
 	rows := [][2]string{
 		{"Client", p.Title.Client},
-		{"Site", p.Title.Address},
+		{"Address", p.Title.Address},
 		{"Date", p.Title.Date},
 		{"Prepared by", p.Title.Preparer},
 		{"Units", unitsName(p.Units)},

@@ -102,8 +102,10 @@ func Section(w io.Writer, s SectionData) error {
 	hNeed := (sHi - sLo) * 1000 / secPlotW
 	hDenom := s.ScaleDenominator
 	if hDenom == 0 {
-		// Also make the relief fit at no exaggeration.
-		hDenom = standardScale(math.Max(hNeed, relief*1000/(secPlotH*secFill)), s.Units)
+		// Also make the relief fit at the chosen exaggeration (at none when
+		// it is to be chosen).
+		vNeed := relief * 1000 * math.Max(s.Exaggeration, 1) / (secPlotH * secFill)
+		hDenom = standardScale(math.Max(hNeed, vNeed), s.Units)
 	}
 	ve := s.Exaggeration
 	if ve == 0 {
