@@ -76,7 +76,7 @@ func (z Zone) Validate() error {
 	switch z.Corners {
 	case Round:
 	case Sharp:
-		if r, _ := cleanRing(z.Ring); !isConvex(r) {
+		if r, _ := cleanRing(z.Ring); z.WallSlope > 0 && !isConvex(r) {
 			return fmt.Errorf("%w: sharp corners need a convex outline; use round corners or split the zone", ErrZone)
 		}
 	default:
