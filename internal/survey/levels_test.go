@@ -2,6 +2,7 @@ package survey
 
 import (
 	"errors"
+	"strings"
 	"testing"
 
 	"github.com/dugout-estimating/dugout/internal/units"
@@ -113,5 +114,32 @@ func TestReadLevels_Bad(t *testing.T) {
 				t.Errorf("Read = %v, want ErrColumns", err)
 			}
 		})
+	}
+}
+
+// TestReadLevels_DocExample reads the level book of docs/input-formats.md:
+// HI 100 + 1.234 = 101.234; P1 99.734; TP1 101.234 − 2.456 = 98.778; HI
+// 98.778 + 2.234 = 101.012; P3 99.901; BM1 101.012 − 1.014 = 99.998, a
+// misclosure of −0.002 m.
+func TestReadLevels_DocExample(t *testing.T) {
+	doc := string(mustReadFile(t, "../../docs/input-formats.md"))
+	i := strings.Index(doc, "    point,easting,northing,bs,is,fs,elevation,description\n")
+	if i < 0 {
+		t.Fatal("level book example not found in docs/input-formats.md")
+	}
+	var body strings.Builder
+	for _, l := range strings.Split(doc[i:], "\n") {
+		if !strings.HasPrefix(l, "    ") {
+			break
+		}
+		body.WriteString(strings.TrimPrefix(l, "    ") + "\n")
+	}
+	s, err := readString(t, "doc.csv", body.String(), Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := s.Files[0].Levels.Checks
+	if len(c) != 1 || !closeTo(c[0].MisclosureM, -0.002, 1e-9) || !closeTo(s.Points[2].P.Z, 99.901, 1e-9) {
+		t.Errorf("checks %+v, P3 z %v; want misclosure -0.002 and P3 99.901", c, s.Points[2].P.Z)
 	}
 }
