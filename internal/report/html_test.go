@@ -467,3 +467,15 @@ func countInk(img image.Image) (ink, cut int) {
 	}
 	return ink, cut
 }
+
+func BenchmarkHTMLSample(b *testing.B) {
+	r := sampleReport(b)
+	b.ReportAllocs()
+	var buf bytes.Buffer
+	for b.Loop() {
+		buf.Reset()
+		if err := HTML(&buf, r); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

@@ -408,3 +408,51 @@ func BenchmarkPlanSample(b *testing.B) {
 		}
 	}
 }
+
+// largeDepthPlan is a 200 × 150 m site with a 0.1 m cut/fill raster (3
+// million cells), a smooth bowl of cut with a fill ring.
+func largeDepthPlan() PlanData {
+	const nx, ny, cell = 2000, 1500, 0.1
+	dm := make([]float64, nx*ny)
+	for j := range ny {
+		for i := range nx {
+			x, y := float64(i)*cell-100, float64(j)*cell-75
+			r := math.Hypot(x/60, y/40)
+			switch {
+			case r < 1:
+				dm[j*nx+i] = -2.5 * (1 - r*r)
+			case r < 1.3:
+				dm[j*nx+i] = 0.8 * math.Sin((r-1)/0.3*math.Pi)
+			default:
+				dm[j*nx+i] = math.NaN()
+			}
+		}
+	}
+	return PlanData{Units: units.Metres, Depth: PlanDepthMap{Origin: geom.Vec2{X: -100, Y: -75}, CellM: cell, NX: nx, NY: ny, DM: dm}}
+}
+
+func TestPlan_LargeRasterIsBounded(t *testing.T) {
+	if testing.Short() {
+		t.Skip("large raster")
+	}
+	out := renderPlan(t, largeDepthPlan())
+	// Cells are averaged to at least planMinCellMM on paper, so at most
+	// (172/0.5)·(146/0.5) ≈ 100 000 cells remain: the file stays in
+	// megabytes, not the hundreds the raw raster would take.
+	if len(out) > 4<<20 {
+		t.Errorf("plan of a 3-million-cell raster is %d bytes, want under 4 MiB", len(out))
+	}
+	parseXML(t, out)
+}
+
+func BenchmarkPlanLargeRaster3M(b *testing.B) {
+	p := largeDepthPlan()
+	b.ReportAllocs()
+	var buf bytes.Buffer
+	for b.Loop() {
+		buf.Reset()
+		if err := Plan(&buf, p); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

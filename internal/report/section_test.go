@@ -225,3 +225,15 @@ func TestSection_Degenerate(t *testing.T) {
 		})
 	}
 }
+
+func BenchmarkSectionSample(b *testing.B) {
+	s := sampleSection("A")
+	b.ReportAllocs()
+	var buf bytes.Buffer
+	for b.Loop() {
+		buf.Reset()
+		if err := Section(&buf, s); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
