@@ -79,7 +79,8 @@ type PlanData struct {
 	WaterLevelM   float64
 
 	// ScaleDenominator is the plan scale 1:ScaleDenominator; 0 picks the
-	// largest standard scale at which everything fits (see [standardScale]).
+	// largest standard scale at which everything fits (ISO 5455 series for
+	// metres, engineer's scales "1 in = N ft" for feet).
 	// A chosen scale at which the site does not fit is kept, the map is cut
 	// at its frame and a note on the sheet says so.
 	ScaleDenominator float64
@@ -183,7 +184,7 @@ func Plan(w io.Writer, p PlanData) error {
 	drawGridTicks(d, t, &p)
 	drawContours(d, t, p.Existing, p.Units, "existing", colExisting, 0.13, 0.25, "1.5 0.8")
 	drawContours(d, t, p.Design, p.Units, "design", colDesign, 0.18, 0.35, "")
-	drawZones(d, t, p.Zones, p.Units)
+	drawZones(d, t, p.Zones)
 	drawRingLayer(d, t, "berm-toe", p.BermToe, nil, colInk, 0.25, "2 1")
 	drawRingLayer(d, t, "rim", nil, p.Rim, colInk, 0.5, "")
 	drawRingLayer(d, t, "water-line", nil, p.WaterLine, colWater, 0.5, "4 1 1 1")
@@ -721,7 +722,7 @@ func drawRingLayer(d *svgDoc, t paperTransform, class string, lines []geom.Polyl
 }
 
 // drawZones draws the zone outlines.
-func drawZones(d *svgDoc, t paperTransform, zones []PlanZone, sys units.System) {
+func drawZones(d *svgDoc, t paperTransform, zones []PlanZone) {
 	rings := make([]geom.Ring, len(zones))
 	for i, z := range zones {
 		rings[i] = z.Ring

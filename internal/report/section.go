@@ -430,11 +430,14 @@ func chainageTicks(sLo, sHi, kh float64, sys units.System) ([]float64, int) {
 	return ts, decimalsFor(step)
 }
 
-// decimalsFor returns the decimals needed to print multiples of step.
+// decimalsFor returns the decimals needed to print multiples of step (a
+// value from [niceStep]); a step counts as whole at a decimal when it is
+// within [niceTol] (relative) of it, which absorbs the binary round-off of
+// steps such as 0.1 or 0.25.
 func decimalsFor(step float64) int {
 	for dec := 0; dec < 4; dec++ {
 		p := math.Pow(10, float64(dec))
-		if math.Abs(step*p-math.Round(step*p)) < 1e-9*p {
+		if math.Abs(step*p-math.Round(step*p)) <= niceTol*step*p {
 			return dec
 		}
 	}

@@ -56,7 +56,8 @@ func newSVGDoc(w, h float64) *svgDoc {
 	return d
 }
 
-// finish closes the root element and writes the document to w.
+// writeTo closes the root element and writes the document to w in one
+// write.
 func (d *svgDoc) writeTo(w io.Writer) error {
 	d.b.WriteString("</svg>\n")
 	_, err := w.Write(d.b.Bytes())
