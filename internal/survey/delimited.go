@@ -372,7 +372,3 @@ func readRows(f *rawFile, lay *layout, lines []textLine, opt *Options, prog *pro
 	f.info.Points = len(f.pts)
 	return nil
 }
-
-// isAuto reports whether a CRS spec asks for automatic choice: "auto", or
-// the zero Spec.
-func isAuto(s crsSpec) bool { return s.Auto || isZeroSpec(s) }

@@ -81,13 +81,6 @@ func readGeoJSON(path string, data []byte, opt *Options) (*rawFile, error) {
 		f.info.Geographic = true
 		f.vUnitM = 1 // RFC 7946 §3.1.1: altitude in metres
 	}
-	if f.geographic {
-		for _, p := range f.pts {
-			if err := checkLonLat(path, p.line, p.x, p.y); err != nil {
-				return nil, err
-			}
-		}
-	}
 	f.info.Points, f.info.Breaklines, f.info.Boundaries = len(f.pts), len(f.lines), len(f.polys)
 	return f, f.missingZ(opt, "no altitude in the positions")
 }

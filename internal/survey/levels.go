@@ -44,6 +44,21 @@ type levelRow struct {
 	bs, is, fs, z float64 // NaN when absent; z is a known elevation
 }
 
+// levelBook is the state of a level book being reduced.
+type levelBook struct {
+	f      *rawFile
+	lay    *layout
+	opt    *Options
+	info   *LevelInfo
+	xr, yr role // position columns
+
+	hi        float64   // height of instrument, NaN between setups
+	pending   *levelRow // the last foresight, waiting for its backsight
+	elevOf    map[string]float64
+	lineOf    map[string]int
+	warnedRod bool
+}
+
 // readLevels computes elevations from the rod readings of a level book by
 // the height-of-instrument method (any surveying textbook on differential
 // levelling): HI = elevation + BS; elevation = HI − IS for an intermediate
@@ -51,186 +66,199 @@ type levelRow struct {
 // by a backsight on the same row or the next (HI = its elevation + BS).
 // Rod readings and elevations are in Options.Units.
 func readLevels(f *rawFile, lay *layout, lines []textLine, opt *Options, prog *progress) error {
-	path := f.info.Path
-	xr, yr := roleEast, roleNorth
+	b := &levelBook{f: f, lay: lay, opt: opt, info: &LevelInfo{}, xr: roleEast, yr: roleNorth,
+		hi: nan, elevOf: map[string]float64{}, lineOf: map[string]int{}}
 	if lay.geo {
-		xr, yr = roleLon, roleLat
+		b.xr, b.yr = roleLon, roleLat
 		f.geographic = true
 		f.info.Geographic = true
 	}
-	if !lay.has(xr) {
-		return perr(path, lines[0].n-1, "", ErrColumns, "a level book needs position columns (easting and northing, or latitude and longitude) to place its points")
+	if !lay.has(b.xr) {
+		return perr(f.info.Path, lines[0].n-1, "", ErrColumns, "a level book needs position columns (easting and northing, or latitude and longitude) to place its points")
 	}
-	info := &LevelInfo{}
-	f.info.Levels = info
-	m := opt.Units.Metres()
-
-	hi := nan             // current height of instrument, NaN between setups
-	var pending *levelRow // last foresight, waiting for its backsight
-	elevOf := map[string]float64{}
-	lineOf := map[string]int{}
-	warnedRod := false
+	f.info.Levels = b.info
 	for k, l := range lines {
 		prog.step(k, len(lines))
-		fields, err := rowFields(path, l, lay)
+		r, err := b.parseRow(l)
 		if err != nil {
 			return err
 		}
-		r := levelRow{line: l.n, id: lay.field(fields, roleID), code: lay.field(fields, roleDesc)}
-		for _, v := range []struct {
-			ro  role
-			dst *float64
-		}{{roleBS, &r.bs}, {roleIS, &r.is}, {roleFS, &r.fs}, {lay.z, &r.z}} {
-			if *v.dst, err = parseOptNum(path, l.n, lay.fieldName(v.ro), lay.field(fields, v.ro)); err != nil {
-				return err
-			}
+		elev, err := b.reduce(&r)
+		if err != nil {
+			return err
 		}
-		sx, sy := lay.field(fields, xr), lay.field(fields, yr)
-		if sx != "" || sy != "" {
-			if r.x, err = parseNum(path, l.n, lay.fieldName(xr), sx); err != nil {
-				return err
-			}
-			if r.y, err = parseNum(path, l.n, lay.fieldName(yr), sy); err != nil {
-				return err
-			}
-			if lay.geo {
-				if err := checkLonLat(path, l.n, r.x, r.y); err != nil {
-					return err
-				}
-			}
-			r.placed = true
-		}
-		has := func(v float64) bool { return !math.IsNaN(v) }
-		switch {
-		case !has(r.bs) && !has(r.is) && !has(r.fs):
-			return perr(path, l.n, "", ErrLevels, "row has no rod reading (bs, is or fs)")
-		case has(r.is) && has(r.fs):
-			return perr(path, l.n, lay.fieldName(roleIS), ErrLevels, "row has both an intermediate sight and a foresight")
-		case has(r.is) && has(r.bs):
-			return perr(path, l.n, lay.fieldName(roleIS), ErrLevels, "row has both a backsight and an intermediate sight")
-		}
-		if !warnedRod {
-			for _, v := range []float64{r.bs, r.is, r.fs} {
-				if has(v) && math.Abs(v)*m > MaxRodM {
-					f.warn(l.n, "rod reading %s %s is longer than a levelling rod (at most 25 ft, 7.62 m): are the readings in another unit than --units %s?", fmtNum(v), opt.Units, opt.Units)
-					warnedRod = true
-					break
-				}
-			}
-		}
-
-		elev := nan
-		if math.IsNaN(hi) {
-			// A new setup: this row must be a backsight on a known point.
-			if has(r.is) || has(r.fs) {
-				if pending != nil {
-					return perr(path, l.n, "", ErrLevels, "no instrument height: after the foresight on line %d the next reading must be a backsight", pending.line)
-				}
-				return perr(path, l.n, "", ErrLevels, "no instrument height: the book must start with a backsight on a benchmark (a row with an elevation and a bs reading)")
-			}
-			ref, err := backsightRef(path, &r, pending, elevOf, lineOf)
-			if err != nil {
-				return err
-			}
-			if pending != nil && !has(r.z) {
-				info.TurningPoints++
-			}
-			hi = ref + r.bs
-			info.Setups++
-			pending = nil
-			elev = ref
-		} else {
-			switch {
-			case has(r.is):
-				elev = hi - r.is
-			case has(r.fs):
-				elev = hi - r.fs
-			default: // a second backsight with no foresight before it
-				if _, known := elevOf[r.id]; !has(r.z) && (r.id == "" || !known) {
-					return perr(path, l.n, lay.fieldName(roleBS), ErrLevels, "backsight with no foresight before it: a new setup needs a turning point (fs) or a point of known elevation")
-				}
-				ref, err := backsightRef(path, &r, nil, elevOf, lineOf)
-				if err != nil {
-					return err
-				}
-				hi = ref + r.bs
-				info.Setups++
-				elev = ref
-			}
-			if has(r.is) || has(r.fs) {
-				if has(r.z) {
-					info.Checks = append(info.Checks, LevelCheck{Point: r.id, Line: l.n,
-						ComputedM: elev * m, KnownM: r.z * m, MisclosureM: (elev - r.z) * m})
-					// A benchmark keeps its known elevation, and the run
-					// continues from it.
-					elev = r.z
-				}
-				if has(r.fs) {
-					if has(r.bs) {
-						hi = elev + r.bs
-						info.Setups++
-						info.TurningPoints++
-					} else {
-						hi = nan
-						rr := r
-						rr.z = elev
-						pending = &rr
-					}
-				}
-			}
-		}
-		if err := addLevelled(f, &r, elev, k, opt, elevOf, lineOf, info); err != nil {
+		if err := b.add(&r, elev, k); err != nil {
 			return err
 		}
 	}
 	f.info.Points = len(f.pts)
 	if len(f.pts) == 0 {
-		return perr(path, 0, "", ErrEmpty, "the level book places no points (no row has a position)")
+		return perr(f.info.Path, 0, "", ErrEmpty, "the level book places no points (no row has a position)")
 	}
 	return nil
+}
+
+func has(v float64) bool { return !math.IsNaN(v) }
+
+// parseRow reads the readings and position of one row and checks that its
+// readings go together.
+func (b *levelBook) parseRow(l textLine) (levelRow, error) {
+	path, lay := b.f.info.Path, b.lay
+	r := levelRow{line: l.n}
+	fields, err := rowFields(path, l, lay)
+	if err != nil {
+		return r, err
+	}
+	r.id, r.code = lay.field(fields, roleID), lay.field(fields, roleDesc)
+	for _, v := range []struct {
+		ro  role
+		dst *float64
+	}{{roleBS, &r.bs}, {roleIS, &r.is}, {roleFS, &r.fs}, {lay.z, &r.z}} {
+		if *v.dst, err = parseOptNum(path, l.n, lay.fieldName(v.ro), lay.field(fields, v.ro)); err != nil {
+			return r, err
+		}
+	}
+	if sx, sy := lay.field(fields, b.xr), lay.field(fields, b.yr); sx != "" || sy != "" {
+		if r.x, err = parseNum(path, l.n, lay.fieldName(b.xr), sx); err != nil {
+			return r, err
+		}
+		if r.y, err = parseNum(path, l.n, lay.fieldName(b.yr), sy); err != nil {
+			return r, err
+		}
+		if lay.geo {
+			if err := checkLonLat(path, l.n, r.x, r.y); err != nil {
+				return r, err
+			}
+		}
+		r.placed = true
+	}
+	switch {
+	case !has(r.bs) && !has(r.is) && !has(r.fs):
+		return r, perr(path, l.n, "", ErrLevels, "row has no rod reading (bs, is or fs)")
+	case has(r.is) && has(r.fs):
+		return r, perr(path, l.n, lay.fieldName(roleIS), ErrLevels, "row has both an intermediate sight and a foresight")
+	case has(r.is) && has(r.bs):
+		return r, perr(path, l.n, lay.fieldName(roleIS), ErrLevels, "row has both a backsight and an intermediate sight")
+	}
+	if !b.warnedRod {
+		u := b.opt.Units
+		for _, v := range []float64{r.bs, r.is, r.fs} {
+			if has(v) && math.Abs(v)*u.Metres() > MaxRodM {
+				b.f.warn(l.n, "rod reading %s %s is longer than a levelling rod (at most 25 ft, 7.62 m): are the readings in another unit than --units %s?", fmtNum(v), u, u)
+				b.warnedRod = true
+				break
+			}
+		}
+	}
+	return r, nil
+}
+
+// reduce carries the levels through one row and returns the row's
+// elevation (in file units).
+func (b *levelBook) reduce(r *levelRow) (float64, error) {
+	path := b.f.info.Path
+	if math.IsNaN(b.hi) {
+		// A new setup: this row must be a backsight on a known point.
+		if has(r.is) || has(r.fs) {
+			if b.pending != nil {
+				return 0, perr(path, r.line, "", ErrLevels, "no instrument height: after the foresight on line %d the next reading must be a backsight", b.pending.line)
+			}
+			return 0, perr(path, r.line, "", ErrLevels, "no instrument height: the book must start with a backsight on a benchmark (a row with an elevation and a bs reading)")
+		}
+		ref, err := b.backsightRef(r, b.pending)
+		if err != nil {
+			return 0, err
+		}
+		if b.pending != nil && !has(r.z) {
+			b.info.TurningPoints++
+		}
+		b.hi = ref + r.bs
+		b.info.Setups++
+		b.pending = nil
+		return ref, nil
+	}
+	var elev float64
+	switch {
+	case has(r.is):
+		elev = b.hi - r.is
+	case has(r.fs):
+		elev = b.hi - r.fs
+	default: // a second backsight with no foresight before it
+		if _, known := b.elevOf[r.id]; !has(r.z) && (r.id == "" || !known) {
+			return 0, perr(path, r.line, b.lay.fieldName(roleBS), ErrLevels, "backsight with no foresight before it: a new setup needs a turning point (fs) or a point of known elevation")
+		}
+		ref, err := b.backsightRef(r, nil)
+		if err != nil {
+			return 0, err
+		}
+		b.hi = ref + r.bs
+		b.info.Setups++
+		return ref, nil
+	}
+	if has(r.z) {
+		m := b.opt.Units.Metres()
+		b.info.Checks = append(b.info.Checks, LevelCheck{Point: r.id, Line: r.line,
+			ComputedM: elev * m, KnownM: r.z * m, MisclosureM: (elev - r.z) * m})
+		// A benchmark keeps its known elevation, and the run continues
+		// from it.
+		elev = r.z
+	}
+	if has(r.fs) {
+		if has(r.bs) {
+			b.hi = elev + r.bs
+			b.info.Setups++
+			b.info.TurningPoints++
+		} else {
+			b.hi = nan
+			tp := *r
+			tp.z = elev
+			b.pending = &tp
+		}
+	}
+	return elev, nil
 }
 
 // backsightRef returns the elevation a backsight is taken on: the row's
 // known elevation, else the turning point of the pending foresight (the
 // same id or none), else an earlier point with that id.
-func backsightRef(path string, r *levelRow, pending *levelRow, elevOf map[string]float64, lineOf map[string]int) (float64, error) {
-	if !math.IsNaN(r.z) {
+func (b *levelBook) backsightRef(r *levelRow, pending *levelRow) (float64, error) {
+	path := b.f.info.Path
+	if has(r.z) {
 		return r.z, nil
 	}
 	if pending != nil && (r.id == "" || r.id == pending.id) {
-		if r.id == "" {
-			r.id = pending.id
-		}
+		r.id = pending.id
 		return pending.z, nil
 	}
-	if z, ok := elevOf[r.id]; ok && r.id != "" {
+	if z, ok := b.elevOf[r.id]; ok && r.id != "" {
 		return z, nil
 	}
-	if pending == nil && len(elevOf) == 0 {
+	if pending == nil && len(b.elevOf) == 0 {
 		return 0, perr(path, r.line, "", ErrLevels, "the first backsight must be on a benchmark: give its elevation")
 	}
 	return 0, perr(path, r.line, "", ErrLevels, "backsight on %q, whose elevation is not known (give it, or level to it first)", r.id)
 }
 
-// addLevelled records a levelled row as a point when it has a position.
-// A point levelled a second time keeps its first elevation; a difference
-// beyond ConflictTolM is reported.
-func addLevelled(f *rawFile, r *levelRow, elev float64, k int, opt *Options, elevOf map[string]float64, lineOf map[string]int, info *LevelInfo) error {
+// add records a levelled row as a point when it has a position. A point
+// levelled a second time keeps its first elevation; a difference beyond
+// ConflictTolM is reported.
+func (b *levelBook) add(r *levelRow, elev float64, k int) error {
+	f := b.f
 	if r.id != "" {
-		if z0, seen := elevOf[r.id]; seen {
-			if d := math.Abs(elev-z0) * opt.Units.Metres(); d > opt.ConflictTolM {
-				f.warn(r.line, "point %q levelled again differs by %.3f m from line %d", r.id, d, lineOf[r.id])
+		if z0, seen := b.elevOf[r.id]; seen {
+			if d := math.Abs(elev-z0) * b.opt.Units.Metres(); d > b.opt.ConflictTolM {
+				f.warn(r.line, "point %q levelled again differs by %.3f m from line %d", r.id, d, b.lineOf[r.id])
 			}
 			return nil
 		}
-		elevOf[r.id] = elev
-		lineOf[r.id] = r.line
+		b.elevOf[r.id] = elev
+		b.lineOf[r.id] = r.line
 	}
 	if !r.placed {
-		if !math.IsNaN(r.is) {
+		if has(r.is) {
 			return perr(f.info.Path, r.line, "", ErrColumns, "intermediate sight with no position: give its easting and northing")
 		}
-		info.Unplaced++
+		b.info.Unplaced++
 		return nil
 	}
 	p := rawPoint{id: r.id, explicitID: r.id != "", x: r.x, y: r.y, z: elev, code: r.code, hacc: nan, vacc: nan, line: r.line}

@@ -15,11 +15,13 @@ import (
 	"github.com/dugout-estimating/dugout/internal/units"
 )
 
-type crsSpec = crs.Spec
-
 // isZeroSpec reports whether s is the zero Spec, which Options documents as
 // auto (crs.Parse("local") names its CRS, so it is not zero).
 func isZeroSpec(s crs.Spec) bool { return !s.Auto && s.CRS == (crs.CRS{}) }
+
+// isAuto reports whether a CRS spec asks for automatic choice: "auto", or
+// the zero Spec.
+func isAuto(s crs.Spec) bool { return s.Auto || isZeroSpec(s) }
 
 func specString(s crs.Spec) string {
 	if isAuto(s) {
@@ -61,20 +63,18 @@ func Read(paths []string, opt Options) (*Set, error) {
 		return nil, fmt.Errorf("%w: --crs %s is longitude/latitude, not a grid to work in: use --crs auto (lon/lat goes to its UTM zone) or a UTM zone's EPSG code", ErrCRS, opt.CRS)
 	}
 	prog := &progress{fn: opt.Progress}
+	sizes := make([]int64, len(paths))
 	if opt.Progress != nil {
-		for _, p := range paths {
+		for i, p := range paths {
 			if fi, err := os.Stat(p); err == nil {
+				sizes[i] = fi.Size()
 				prog.total += fi.Size()
 			}
 		}
 	}
 	files := make([]*rawFile, 0, len(paths))
-	for _, p := range paths {
-		if opt.Progress != nil {
-			if fi, err := os.Stat(p); err == nil {
-				prog.size = fi.Size()
-			}
-		}
+	for i, p := range paths {
+		prog.size = sizes[i]
 		f, err := readFile(p, &opt, prog)
 		if err != nil {
 			return nil, err
