@@ -1,7 +1,6 @@
 package contours
 
 import (
-	"cmp"
 	"errors"
 	"fmt"
 	"math"
@@ -54,15 +53,19 @@ func (e *MeshError) Unwrap() error { return e.Err }
 
 // mesh is a triangle mesh prepared for tracing: the usable triangles and,
 // for every half-edge h (triangle h/3, from corner h%3 to the next), the
-// half-edge of the neighbouring triangle across it, or -1 on the boundary.
+// half-edge of the neighbouring triangle across it ([mesh.twin]).
 type mesh struct {
 	v    []geom.Vec3
 	t    []int32
 	tris []int32 // usable triangles, ascending
-	twin []int32
+	link []int32 // link[h] = twin(h) + 1, so that zeroed memory means "boundary"
 	zlo  float64 // elevation range of the vertices of usable triangles
 	zhi  float64 // (zlo > zhi when there are none)
 }
+
+// twin returns the half-edge across h in the neighbouring triangle, or -1
+// when h is on the boundary.
+func (pm *mesh) twin(h int32) int32 { return pm.link[h] - 1 }
 
 // next returns the half-edge after h in its triangle.
 func next(h int32) int32 {
@@ -91,51 +94,41 @@ func prepare(m geom.TriMesh, strict bool) (*mesh, error) {
 			detail: fmt.Sprintf("mesh too large: %d vertices, %d triangles", len(m.V), nt)}
 	}
 	pm := &mesh{v: m.V, t: m.T[:3*nt], zlo: math.Inf(1), zhi: math.Inf(-1)}
-	nv := int32(len(m.V))
-	pm.tris = make([]int32, 0, nt)
-	for t := range nt {
-		c := m.T[3*t : 3*t+3]
-		ok := true
-		for k, i := range c {
-			if i < 0 || i >= nv {
-				if strict {
-					return nil, &MeshError{Triangle: t, Vertex: -1, Err: ErrIndex,
-						detail: fmt.Sprintf("corner %d is %d, want 0 to %d", k, i, nv-1)}
-				}
-				ok = false
-				break
-			}
+	nv := uint32(len(m.V))
+	// One pass over the vertices settles finiteness for the common case;
+	// only when some vertex is bad does each triangle check its own.
+	allFinite := true
+	for _, p := range m.V {
+		if !p.IsFinite() {
+			allFinite = false
+			break
 		}
-		if !ok {
-			continue
+	}
+	// The triangle pass runs in contiguous chunks; the first chunk holding
+	// an error holds the first bad triangle.
+	type part struct {
+		tris     []int32
+		zlo, zhi float64
+		err      error
+	}
+	ranges := split(nt, workersFor(nt))
+	parts := make([]part, len(ranges))
+	parallel(len(ranges), func(w int) {
+		p := part{tris: make([]int32, 0, ranges[w][1]-ranges[w][0]), zlo: math.Inf(1), zhi: math.Inf(-1)}
+		p.err = checkTriangles(m, ranges[w][0], ranges[w][1], nv, allFinite, strict, &p.tris, &p.zlo, &p.zhi)
+		parts[w] = p
+	})
+	n := 0
+	for _, p := range parts {
+		if p.err != nil {
+			return nil, p.err
 		}
-		if c[0] == c[1] || c[1] == c[2] || c[0] == c[2] {
-			if strict {
-				return nil, &MeshError{Triangle: t, Vertex: -1, Err: ErrDegenerate,
-					detail: fmt.Sprintf("corners %d, %d, %d", c[0], c[1], c[2])}
-			}
-			continue
-		}
-		for _, i := range c {
-			if !m.V[i].IsFinite() {
-				if strict {
-					p := m.V[i]
-					return nil, &MeshError{Triangle: t, Vertex: int(i), Err: ErrNonFinite,
-						detail: fmt.Sprintf("(%g, %g, %g)", p.X, p.Y, p.Z)}
-				}
-				ok = false
-				break
-			}
-		}
-		if !ok {
-			continue
-		}
-		for _, i := range c {
-			z := m.V[i].Z
-			pm.zlo = math.Min(pm.zlo, z)
-			pm.zhi = math.Max(pm.zhi, z)
-		}
-		pm.tris = append(pm.tris, int32(t))
+		n += len(p.tris)
+		pm.zlo, pm.zhi = math.Min(pm.zlo, p.zlo), math.Max(pm.zhi, p.zhi)
+	}
+	pm.tris = make([]int32, 0, n)
+	for _, p := range parts {
+		pm.tris = append(pm.tris, p.tris...)
 	}
 	if err := pm.buildTwins(strict); err != nil {
 		return nil, err
@@ -143,67 +136,180 @@ func prepare(m geom.TriMesh, strict bool) (*mesh, error) {
 	return pm, nil
 }
 
+// checkTriangles checks triangles [from, to) of m, appends the usable ones
+// to tris and widens [zlo, zhi] by their corners' elevations. In strict mode
+// it returns the first problem instead of skipping the triangle.
+func checkTriangles(m geom.TriMesh, from, to int, nv uint32, allFinite, strict bool, tris *[]int32, zlo, zhi *float64) error {
+	lo, hi := *zlo, *zhi
+	for t := from; t < to; t++ {
+		c := m.T[3*t : 3*t+3 : 3*t+3]
+		i0, i1, i2 := c[0], c[1], c[2]
+		if uint32(i0) >= nv || uint32(i1) >= nv || uint32(i2) >= nv {
+			if strict {
+				k, i := 0, i0
+				if uint32(i0) < nv {
+					k, i = 1, i1
+					if uint32(i1) < nv {
+						k, i = 2, i2
+					}
+				}
+				return &MeshError{Triangle: t, Vertex: -1, Err: ErrIndex,
+					detail: fmt.Sprintf("corner %d is %d, want 0 to %d", k, i, int64(nv)-1)}
+			}
+			continue
+		}
+		if i0 == i1 || i1 == i2 || i0 == i2 {
+			if strict {
+				return &MeshError{Triangle: t, Vertex: -1, Err: ErrDegenerate,
+					detail: fmt.Sprintf("corners %d, %d, %d", i0, i1, i2)}
+			}
+			continue
+		}
+		p0, p1, p2 := &m.V[i0], &m.V[i1], &m.V[i2]
+		if !allFinite {
+			bad := int32(-1)
+			switch {
+			case !p0.IsFinite():
+				bad = i0
+			case !p1.IsFinite():
+				bad = i1
+			case !p2.IsFinite():
+				bad = i2
+			}
+			if bad >= 0 {
+				if strict {
+					p := m.V[bad]
+					return &MeshError{Triangle: t, Vertex: int(bad), Err: ErrNonFinite,
+						detail: fmt.Sprintf("(%g, %g, %g)", p.X, p.Y, p.Z)}
+				}
+				continue
+			}
+		}
+		for _, z := range [3]float64{p0.Z, p1.Z, p2.Z} {
+			if z < lo {
+				lo = z
+			}
+			if z > hi {
+				hi = z
+			}
+		}
+		*tris = append(*tris, int32(t))
+	}
+	*zlo, *zhi = lo, hi
+	return nil
+}
+
 // buildTwins pairs the half-edges of usable triangles that join the same two
 // vertices (in either direction, so a mesh with some triangles wound the
 // wrong way still links up). Half-edges are grouped by their lower vertex
-// in a counting sort, then each group is sorted by the upper vertex.
+// in a counting sort, each entry packing the upper vertex above the
+// half-edge number, so that sorting a group (a handful of entries) puts the
+// copies of each edge side by side.
 func (pm *mesh) buildTwins(strict bool) error {
 	nv := len(pm.v)
+	t := pm.t
+	// Counting sort by lower vertex, in parallel over chunks of triangles:
+	// each chunk counts its half-edges per vertex, the counts become each
+	// chunk's write offsets, and each chunk fills its own slots, so the
+	// result is the same as a sequential pass.
+	ranges := split(len(pm.tris), workersFor(len(pm.tris)))
+	cnt := make([][]int32, len(ranges))
+	parallel(len(ranges), func(w int) {
+		c := make([]int32, nv)
+		for _, tr := range pm.tris[ranges[w][0]:ranges[w][1]] {
+			k := t[3*tr : 3*tr+3 : 3*tr+3]
+			c[min(k[0], k[1])]++
+			c[min(k[1], k[2])]++
+			c[min(k[2], k[0])]++
+		}
+		cnt[w] = c
+	})
 	start := make([]int32, nv+1)
-	for _, t := range pm.tris {
-		for k := int32(0); k < 3; k++ {
-			h := 3*t + k
-			a, b := pm.t[h], pm.t[next(h)]
-			start[min(a, b)+1]++
+	var off int32
+	for v := range nv {
+		start[v] = off
+		for _, c := range cnt {
+			n := c[v]
+			c[v] = off
+			off += n
 		}
 	}
-	for i := 1; i <= nv; i++ {
-		start[i] += start[i-1]
-	}
-	list := make([]int32, 3*len(pm.tris))
-	fill := slices.Clone(start[:nv])
-	for _, t := range pm.tris {
-		for k := int32(0); k < 3; k++ {
-			h := 3*t + k
-			a, b := pm.t[h], pm.t[next(h)]
-			lo := min(a, b)
-			list[fill[lo]] = h
+	start[nv] = off
+	list := make([]uint64, off)
+	parallel(len(ranges), func(w int) {
+		fill := cnt[w]
+		put := func(a, b int32, h int32) {
+			lo, hi := min(a, b), max(a, b)
+			list[fill[lo]] = uint64(hi)<<32 | uint64(h)
 			fill[lo]++
 		}
-	}
-	fill = nil
-	pm.twin = make([]int32, len(pm.t))
-	for i := range pm.twin {
-		pm.twin[i] = -1
-	}
-	upper := func(h int32) int32 { return max(pm.t[h], pm.t[next(h)]) }
-	for v := range nv {
-		g := list[start[v]:start[v+1]]
-		if len(g) > 1 {
-			slices.SortFunc(g, func(x, y int32) int {
-				if c := cmp.Compare(upper(x), upper(y)); c != 0 {
-					return c
-				}
-				return cmp.Compare(x, y)
-			})
+		for _, tr := range pm.tris[ranges[w][0]:ranges[w][1]] {
+			h := 3 * tr
+			k := t[h : h+3 : h+3]
+			put(k[0], k[1], h)
+			put(k[1], k[2], h+1)
+			put(k[2], k[0], h+2)
 		}
-		for i := 0; i < len(g); {
-			j := i + 1
-			for j < len(g) && upper(g[j]) == upper(g[i]) {
-				j++
+	})
+	cnt = nil
+	pm.link = make([]int32, len(t)) // zero: no neighbour
+	// Pair the copies of each edge, in parallel over ranges of vertices
+	// holding similar numbers of half-edges; every half-edge is in exactly
+	// one group, so the writes never overlap.
+	vr := make([][2]int, len(ranges))
+	for w := range vr {
+		lo := int32(int64(off) * int64(w) / int64(len(vr)))
+		hi := int32(int64(off) * int64(w+1) / int64(len(vr)))
+		vr[w] = [2]int{vertexAt(start, lo), vertexAt(start, hi)}
+	}
+	vr[len(vr)-1][1] = nv
+	errs := make([]error, len(vr))
+	parallel(len(vr), func(w int) {
+		for v := vr[w][0]; v < vr[w][1]; v++ {
+			g := list[start[v]:start[v+1]]
+			if len(g) > 1 {
+				slices.Sort(g)
 			}
-			switch j - i {
-			case 1: // boundary edge
-			case 2:
-				pm.twin[g[i]], pm.twin[g[i+1]] = g[i+1], g[i]
-			default:
-				if strict {
-					return &MeshError{Triangle: int(g[i] / 3), Vertex: -1, Err: ErrNonManifold,
-						detail: fmt.Sprintf("edge %d-%d is used by %d triangles", v, upper(g[i]), j-i)}
+			for i := 0; i < len(g); {
+				up := g[i] >> 32
+				j := i + 1
+				for j < len(g) && g[j]>>32 == up {
+					j++
 				}
+				switch j - i {
+				case 1: // boundary edge
+				case 2:
+					a, b := int32(uint32(g[i])), int32(uint32(g[i+1]))
+					pm.link[a], pm.link[b] = b+1, a+1
+				default:
+					if strict {
+						errs[w] = &MeshError{Triangle: int(uint32(g[i])) / 3, Vertex: -1, Err: ErrNonManifold,
+							detail: fmt.Sprintf("edge %d-%d is used by %d triangles", v, up, j-i)}
+						return
+					}
+				}
+				i = j
 			}
-			i = j
+		}
+	})
+	for _, err := range errs {
+		if err != nil {
+			return err
 		}
 	}
 	return nil
+}
+
+// vertexAt returns the first vertex whose group starts at or after slot i.
+func vertexAt(start []int32, i int32) int {
+	lo, hi := 0, len(start)-1
+	for lo < hi {
+		mid := (lo + hi) / 2
+		if start[mid] < i {
+			lo = mid + 1
+		} else {
+			hi = mid
+		}
+	}
+	return lo
 }

@@ -176,29 +176,59 @@ func (pm *mesh) buckets(lv []float64) (start []int32, bucket []int32) {
 		}
 		return e
 	}
+	// In parallel over chunks of triangles: find each triangle's run of
+	// levels and count it, turn the counts into each chunk's write offsets,
+	// then fill, so that every bucket lists its triangles in ascending order.
 	span := make([]int32, 2*len(pm.tris))
+	ranges := split(len(pm.tris), workersFor(len(pm.tris)))
+	cnt := make([][]int32, len(ranges))
+	parallel(len(ranges), func(w int) {
+		c := make([]int32, n)
+		for j := ranges[w][0]; j < ranges[w][1]; j++ {
+			t := pm.tris[j]
+			k := pm.t[3*t : 3*t+3 : 3*t+3]
+			z0, z1, z2 := pm.v[k[0]].Z, pm.v[k[1]].Z, pm.v[k[2]].Z
+			zmin, zmax := z0, z0
+			if z1 < zmin {
+				zmin = z1
+			} else if z1 > zmax {
+				zmax = z1
+			}
+			if z2 < zmin {
+				zmin = z2
+			} else if z2 > zmax {
+				zmax = z2
+			}
+			lo, hi := upper(zmin), upper(zmax)
+			span[2*j], span[2*j+1] = int32(lo), int32(hi)
+			for i := lo; i < hi; i++ {
+				c[i]++
+			}
+		}
+		cnt[w] = c
+	})
 	start = make([]int32, n+1)
-	for j, t := range pm.tris {
-		c := pm.t[3*t : 3*t+3]
-		z0, z1, z2 := pm.v[c[0]].Z, pm.v[c[1]].Z, pm.v[c[2]].Z
-		lo := upper(min(z0, z1, z2))
-		hi := upper(max(z0, z1, z2))
-		span[2*j], span[2*j+1] = int32(lo), int32(hi)
-		for i := lo; i < hi; i++ {
-			start[i+1]++
+	var off int32
+	for i := range n {
+		start[i] = off
+		for _, c := range cnt {
+			k := c[i]
+			c[i] = off
+			off += k
 		}
 	}
-	for i := 1; i <= n; i++ {
-		start[i] += start[i-1]
-	}
-	bucket = make([]int32, start[n])
-	fill := slices.Clone(start[:n])
-	for j, t := range pm.tris {
-		for i := span[2*j]; i < span[2*j+1]; i++ {
-			bucket[fill[i]] = t
-			fill[i]++
+	start[n] = off
+	bucket = make([]int32, off)
+	parallel(len(ranges), func(w int) {
+		fill := cnt[w]
+		for j := ranges[w][0]; j < ranges[w][1]; j++ {
+			t := pm.tris[j]
+			for i := span[2*j]; i < span[2*j+1]; i++ {
+				bucket[fill[i]] = t
+				fill[i]++
+			}
 		}
-	}
+	})
 	return start, bucket
 }
 
@@ -301,7 +331,7 @@ func (tr *tracer) level(tris []int32, level float64, index bool, sm *smoother) [
 		// boundary or back to t. Invariant: cur is the exit half-edge of the
 		// last triangle walked, and its point is the last one in fwd.
 		for cur := out; ; {
-			g := pm.twin[cur]
+			g := pm.twin(cur)
 			if g < 0 {
 				break
 			}
@@ -321,7 +351,7 @@ func (tr *tracer) level(tris []int32, level float64, index bool, sm *smoother) [
 		back := tr.back[:0]
 		if !closed {
 			for cur := in; ; {
-				g := pm.twin[cur]
+				g := pm.twin(cur)
 				if g < 0 {
 					break
 				}

@@ -1,0 +1,87 @@
+#!/usr/bin/env bash
+# Contouring speed: the contours package against GDAL's gdal_contour on the
+# same surface at the same detail.
+#
+# The surface is the reference bench's synthetic terrain
+# (../shared/refbench/README.md) over its 200 m x 150 m site, sampled on an
+# 817 x 613 lattice: the Go benchmark BenchmarkTrace1e6 contours the TIN of
+# those samples (500 821 vertices, 998 784 triangles) and gdal_contour a
+# Float64 GeoTIFF whose 500 821 pixel centres are the same samples, both at a
+# 0.0575 m interval, which gives 100 levels. Keep the numbers in step with
+# internal/contours/bench_test.go.
+#
+# gdal_contour is timed end to end (start-up, reading the 4 MB raster,
+# contouring, writing) with the OGR Memory driver, so that no file is
+# written, and with GeoJSON for reference; a run with one level below the
+# data (-fl 0) gives its fixed cost. The Go figure is Trace alone on a mesh
+# already in memory. Runs alternate, REPEAT times each; medians are printed.
+#
+# Usage: scripts/bench_contours.sh            (REPEAT=5 BENCHTIME=5x)
+# Needs go, /usr/bin/python3 with numpy and osgeo, gdal_contour, ogrinfo.
+set -euo pipefail
+ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
+PY=/usr/bin/python3
+REPEAT="${REPEAT:-5}"
+BENCHTIME="${BENCHTIME:-5x}"
+OUT="$(mktemp -d)"
+trap 'rm -rf "$OUT"' EXIT
+
+NX=817 NY=613 W=200 INTERVAL=0.0575
+
+"$PY" - "$OUT/terrain.tif" "$NX" "$NY" "$W" <<'PYEOF'
+import sys
+import numpy as np
+from osgeo import gdal
+path, nx, ny, w = sys.argv[1], int(sys.argv[2]), int(sys.argv[3]), float(sys.argv[4])
+d = w / (nx - 1)
+x = np.arange(nx) * d
+y = (np.arange(ny) * d)[::-1]                      # north-up rows
+X, Y = np.meshgrid(x, y)
+T = (100 + 0.02 * X + 0.01 * Y + 0.5 * np.sin(2 * np.pi * X / 80) * np.cos(2 * np.pi * Y / 60)
+     + 0.3 * np.cos(2 * np.pi * (X / 45 + Y / 110)))
+ds = gdal.GetDriverByName("GTiff").Create(path, nx, ny, 1, gdal.GDT_Float64)
+ds.SetGeoTransform((-d / 2, d, 0.0, (ny - 1) * d + d / 2, 0.0, -d))  # pixel centres on the lattice
+ds.GetRasterBand(1).WriteArray(T)
+ds = None
+PYEOF
+
+(cd "$ROOT" && go test -c -o "$OUT/contours.test" ./internal/contours)
+
+now() { date +%s.%N; }
+elapsed() { awk -v a="$1" -v b="$2" 'BEGIN { printf "%.4f", b - a }'; }
+median() { printf '%s\n' "$@" | sort -g | awk '{ v[NR] = $1 } END { print (NR % 2) ? v[(NR + 1) / 2] : (v[NR / 2] + v[NR / 2 + 1]) / 2 }'; }
+
+go_s=() mem_s=() json_s=() fixed_s=()
+lines=""
+for ((r = 0; r < REPEAT; r++)); do
+  res="$(cd "$ROOT/internal/contours" && "$OUT/contours.test" -test.run '^$' -test.bench '^BenchmarkTrace1e6$' \
+    -test.benchtime "$BENCHTIME" -test.count 1 | awk '/^BenchmarkTrace1e6/ { print $3, $5 }')"
+  go_s+=("$(awk -v ns="${res% *}" 'BEGIN { printf "%.4f", ns / 1e9 }')")
+  lines="${res#* }"
+
+  t0=$(now); gdal_contour -q -a elev -i "$INTERVAL" -f Memory "$OUT/terrain.tif" mem >/dev/null; t1=$(now)
+  mem_s+=("$(elapsed "$t0" "$t1")")
+
+  rm -f "$OUT/c.geojson"
+  t0=$(now); gdal_contour -q -a elev -i "$INTERVAL" -f GeoJSON "$OUT/terrain.tif" "$OUT/c.geojson"; t1=$(now)
+  json_s+=("$(elapsed "$t0" "$t1")")
+
+  t0=$(now); gdal_contour -q -a elev -fl 0 -f Memory "$OUT/terrain.tif" mem >/dev/null; t1=$(now)
+  fixed_s+=("$(elapsed "$t0" "$t1")")
+done
+
+gdal_lines="$(ogrinfo -ro -so -al "$OUT/c.geojson" | awk -F': ' '/Feature Count/ { print $2 }')"
+go_m="$(median "${go_s[@]}")" mem_m="$(median "${mem_s[@]}")"
+json_m="$(median "${json_s[@]}")" fixed_m="$(median "${fixed_s[@]}")"
+
+printf 'surface: %d x %d samples (%d TIN vertices, %d triangles; %d raster cells), interval %s m, 100 levels\n' \
+  "$NX" "$NY" $((NX * NY)) $((2 * (NX - 1) * (NY - 1))) $((NX * NY)) "$INTERVAL"
+printf 'lines: contours.Trace %s, gdal_contour %s\n' "$lines" "$gdal_lines"
+printf '%-44s %8s   runs\n' "" "median s"
+printf '%-44s %8.4f   %s\n' "contours.Trace (BenchmarkTrace1e6)" "$go_m" "${go_s[*]}"
+printf '%-44s %8.4f   %s\n' "gdal_contour -f Memory" "$mem_m" "${mem_s[*]}"
+printf '%-44s %8.4f   %s\n' "gdal_contour -f GeoJSON" "$json_m" "${json_s[*]}"
+printf '%-44s %8.4f   %s\n' "gdal_contour, no level (fixed cost)" "$fixed_m" "${fixed_s[*]}"
+awk -v g="$go_m" -v m="$mem_m" -v f="$fixed_m" -v j="$json_m" 'BEGIN {
+  printf "ratio gdal_contour / contours.Trace: %.2f (Memory), %.2f (Memory less fixed cost), %.2f (GeoJSON)\n", m / g, (m - f) / g, j / g
+}'
