@@ -19,12 +19,16 @@
 // infinitesimal amount (Edelsbrunner and Mücke, "Simulation of Simplicity",
 // ACM Trans. Graphics 9(1), 1990): every triangle is then crossed by at most
 // one segment per level and the segments always form paths or cycles, so
-// contours through vertices have no gaps and no duplicates. The geometric
-// images of the perturbed lines are cleaned: repeated points, zero-length
-// segments and spikes that retrace themselves (a ridge lying exactly on the
-// level) are removed, and lines that collapse to nothing (a peak that just
-// touches the level) are dropped. A triangle lying flat exactly at a level
-// is wholly above it and yields no segment.
+// contours through vertices have no gaps. The geometric images of the
+// perturbed lines are then cleaned of what has no width: repeated points and
+// zero-length segments are dropped, a mesh edge traced twice in opposite
+// directions (a ridge lying exactly on the level with lower ground on both
+// sides) is cancelled and the pieces reconnected, and lines that collapse to
+// nothing (a peak that just touches the level) are dropped. A triangle lying
+// flat exactly at a level is wholly above it and yields no segment, so a flat
+// area at a level is outlined where it meets lower ground and never crossed.
+// A mesh boundary lying exactly on the level with lower ground inside it is
+// traced, as the edge of the level set.
 //
 // Orientation: every line runs with the higher ground on its left, so rings
 // around hills are counter-clockwise and rings around pits clockwise (for a
@@ -34,5 +38,6 @@
 // the levels they span, and then visits only the triangles crossing each
 // level, so the total work is proportional to the mesh size plus the number
 // of contour segments. Output is deterministic: the same mesh gives
-// byte-identical lines whatever the order of its triangles.
+// byte-identical lines whatever the order of its triangles and the numbering
+// of its vertices. DESIGN.md describes the data structures.
 package contours
