@@ -72,77 +72,6 @@ func latticeMesh(tb testing.TB, f func(geom.Vec2) float64, box geom.Box, h, rim,
 	return m
 }
 
-// traceLevel is a stand-in for contours.TraceLevel: marching triangles with
-// vertices at or above the level counted as above, each crossing segment
-// directed with the part below on its left, chained through shared edges.
-// Closed lines do not repeat their first point.
-func traceLevel(m geom.TriMesh, level float64) []Line {
-	type key struct{ a, b int32 }
-	mk := func(a, b int32) key {
-		if a > b {
-			a, b = b, a
-		}
-		return key{a, b}
-	}
-	point := func(k key) geom.Vec2 {
-		p, q := m.V[k.a], m.V[k.b]
-		return p.XY().Lerp(q.XY(), (level-p.Z)/(q.Z-p.Z))
-	}
-	next := map[key]key{}
-	for t := range m.NumTriangles() {
-		var exit, entry key
-		var nExit, nEntry int
-		for i := range 3 {
-			a, b := m.T[3*t+i], m.T[3*t+(i+1)%3]
-			ab, bb := m.V[a].Z < level, m.V[b].Z < level
-			switch {
-			case ab && !bb:
-				exit, nExit = mk(a, b), nExit+1
-			case !ab && bb:
-				entry, nEntry = mk(a, b), nEntry+1
-			}
-		}
-		if nExit == 1 && nEntry == 1 {
-			next[exit] = entry
-		}
-	}
-	isEnd := map[key]bool{}
-	for _, v := range next {
-		isEnd[v] = true
-	}
-	var lines []Line
-	seen := map[key]bool{}
-	follow := func(start key) Line {
-		var ln Line
-		k := start
-		for {
-			seen[k] = true
-			ln.Pts = append(ln.Pts, point(k))
-			n, ok := next[k]
-			if !ok {
-				return ln
-			}
-			if n == start {
-				ln.Closed = true
-				return ln
-			}
-			k = n
-		}
-	}
-	// Open lines first, from their starts; then the loops.
-	for k := range next {
-		if !isEnd[k] && !seen[k] {
-			lines = append(lines, follow(k))
-		}
-	}
-	for k := range next {
-		if !seen[k] {
-			lines = append(lines, follow(k))
-		}
-	}
-	return lines
-}
-
 // rectRing returns the counter-clockwise rectangle [x0, x1] × [y0, y1].
 func rectRing(x0, y0, x1, y1 float64) geom.Ring {
 	return geom.Ring{{X: x0, Y: y0}, {X: x1, Y: y0}, {X: x1, Y: y1}, {X: x0, Y: y1}}
@@ -168,6 +97,7 @@ func closeRel(got, want, rel, abs float64) bool {
 // pondCase is a single-zone pond on flat ground built for a test.
 type pondCase struct {
 	bowl  polyBowl
+	w     float64
 	rim   float64
 	mesh  geom.TriMesh
 	zones []Zone
@@ -185,5 +115,10 @@ func onePond(tb testing.TB, r geom.Ring, w, d, fb, s, h float64) pondCase {
 	// vertical wall (where the ring test decides by round-off).
 	box := r.Bounds().Expand(reach)
 	box.Min = box.Min.Sub(geom.Vec2{X: 0.37 * h, Y: 0.19 * h})
-	return pondCase{bowl: b, rim: rim, zones: []Zone{z}, mesh: latticeMesh(tb, b.BowlAt, box, h, rim, 0.5)}
+	return pondCase{bowl: b, w: w, rim: rim, zones: []Zone{z}, mesh: latticeMesh(tb, b.BowlAt, box, h, rim, 0.5)}
+}
+
+// liner returns the liner input for the pond, with the analytic bowl.
+func (pc pondCase) liner() LinerInput {
+	return LinerInput{Mesh: pc.mesh, RimM: pc.rim, WaterLevelM: pc.w, Bowl: pc.bowl, Zones: pc.zones}
 }

@@ -98,13 +98,17 @@ func (r Rect) AreaM2() float64 { return r.LengthM * r.WidthM }
 // MinAreaRect returns the minimum-area rectangle enclosing pts. One side of
 // that rectangle lies along an edge of the convex hull (Freeman & Shapira,
 // "Determining the minimum-area encasing rectangle for an arbitrary closed
-// curve", Comm. ACM 18, 1975), so every hull edge direction is tried; ties
-// keep the first edge in hull order. Collinear input gives a rectangle of
-// zero width along the line, a single point a zero rectangle, and no points
-// the zero Rect. Cost O(n log n + h²) for h hull vertices.
+// curve", Comm. ACM 18, 1975), so every hull edge direction is tried, with
+// the extreme points in the other three directions advanced around the hull
+// as the edge turns (rotating calipers, Toussaint, "Solving geometric
+// problems with the rotating calipers", Proc. IEEE MELECON 1983); ties keep
+// the first edge in hull order. Collinear input gives a rectangle of zero
+// width along the line, a single point a zero rectangle, and no points the
+// zero Rect. Cost O(n log n) for the hull, O(h) after it.
 func MinAreaRect(pts []geom.Vec2) Rect {
 	h := convexHull(pts)
-	switch len(h) {
+	n := len(h)
+	switch n {
 	case 0:
 		return Rect{}
 	case 1:
@@ -113,19 +117,35 @@ func MinAreaRect(pts []geom.Vec2) Rect {
 		d := h[1].Sub(h[0])
 		return Rect{Center: h[0].Lerp(h[1], 0.5), LengthM: d.Norm(), AngleDeg: angleDeg(d)}
 	}
+	dir := func(i int) (u, nv geom.Vec2) {
+		d := h[(i+1)%n].Sub(h[i])
+		u = d.Scale(1 / d.Norm())
+		return u, geom.Vec2{X: -u.Y, Y: u.X}
+	}
+	// Calipers: ia is farthest along u, ib farthest along n (the hull lies
+	// on the left of each counter-clockwise edge, so n points inwards), ic
+	// least along u. Each only moves forward as the edge turns.
 	best := Rect{}
 	bestArea := math.Inf(1)
-	for i := range h {
-		d := h[(i+1)%len(h)].Sub(h[i])
-		u := d.Scale(1 / d.Norm())
-		n := geom.Vec2{X: -u.Y, Y: u.X}
-		lo, hi := extent(h, u)
-		nlo, nhi := extent(h, n)
-		a := (hi - lo) * (nhi - nlo)
+	ia, ib, ic := 0, 0, 0
+	for i := range n {
+		u, nv := dir(i)
+		if i == 0 {
+			ia, ib, ic = farthest(h, 0, u), farthest(h, 0, nv), farthest(h, 0, u.Scale(-1))
+		} else {
+			ia = climb(h, ia, u)
+			ib = climb(h, ib, nv)
+			ic = climb(h, ic, u.Scale(-1))
+		}
+		o := h[i]
+		hi := h[ia].Sub(o).Dot(u)
+		lo := h[ic].Sub(o).Dot(u)
+		wid := h[ib].Sub(o).Dot(nv)
+		a := (hi - lo) * wid
 		if a < bestArea {
 			bestArea = a
-			c := u.Scale((lo + hi) / 2).Add(n.Scale((nlo + nhi) / 2))
-			r := Rect{Center: c, LengthM: hi - lo, WidthM: nhi - nlo, AngleDeg: angleDeg(u)}
+			c := o.Add(u.Scale((lo + hi) / 2)).Add(nv.Scale(wid / 2))
+			r := Rect{Center: c, LengthM: hi - lo, WidthM: wid, AngleDeg: angleDeg(u)}
 			if r.WidthM > r.LengthM {
 				r.LengthM, r.WidthM = r.WidthM, r.LengthM
 				r.AngleDeg = normAngle(r.AngleDeg + 90)
@@ -134,6 +154,33 @@ func MinAreaRect(pts []geom.Vec2) Rect {
 		}
 	}
 	return best
+}
+
+// farthest returns the index of the point of h farthest along u, searched
+// from start (a full scan).
+func farthest(h []geom.Vec2, start int, u geom.Vec2) int {
+	k := start
+	for i := range h {
+		if h[i].Dot(u) > h[k].Dot(u) {
+			k = i
+		}
+	}
+	return k
+}
+
+// climb moves k forward around the convex polygon h while that increases
+// the projection on u; on a convex polygon the projection is unimodal, so
+// this reaches the maximum from the previous edge's maximum.
+func climb(h []geom.Vec2, k int, u geom.Vec2) int {
+	n := len(h)
+	for range n {
+		nk := (k + 1) % n
+		if h[nk].Dot(u) <= h[k].Dot(u) {
+			break
+		}
+		k = nk
+	}
+	return k
 }
 
 // extent returns the smallest and largest projection of pts onto u.

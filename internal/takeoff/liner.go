@@ -243,10 +243,12 @@ type LinerOptions struct {
 	// NoUnderlayment leaves the underlayment out.
 	NoUnderlayment bool
 	// SectionSpacingM is the spacing of the parallel cross-sections that
-	// measure the sheet; 0 means 1/100 of the pond's width across them.
+	// measure the sheet; 0 means 1/64 of the pond's width across them (the
+	// best line's offset is then refined).
 	SectionSpacingM float64
-	// SectionStepM is the sampling step along a cross-section on the
-	// analytic bowl; 0 means 1/400 of the pond's extent (1 mm at least).
+	// SectionStepM is the coarse sampling step along a cross-section on the
+	// analytic bowl (intervals are split where the bowl bends); 0 means
+	// 1/96 of the pond's extent or half the narrowest wall band.
 	SectionStepM float64
 }
 
@@ -317,6 +319,8 @@ type LinerInput struct {
 	// RimM are clipped off.
 	Mesh geom.TriMesh
 	RimM float64
+	// WaterLevelM is the level the zones' depths are measured from.
+	WaterLevelM float64
 	// Bowl is the analytic bowl, or nil to measure on the mesh alone.
 	Bowl Bowl
 	// Zones give the breakpoints of the analytic cross-sections (their
@@ -407,34 +411,59 @@ func MeasureLiner(in LinerInput, o LinerOptions) (LinerResult, *UnderlaymentResu
 	}
 	ras := newRaster(m, R, hr)
 	s := &sheetSearch{
-		coarse:      &rasterProfile{r: ras, step: ras.h},
+		coarse:      &rasterProfile{r: ras, step: 2 * ras.h},
 		fine:        &rasterProfile{r: ras, step: ras.h},
 		hull:        hull,
 		margin:      2*cell + ras.h,
 		overlap:     overlap,
 		coarseLines: 32,
-		fineLines:   96,
+		fineLines:   64,
 	}
 	s.exact, s.exactLines = s.fine, s.fineLines
 	res.SectionMethod = "mesh"
 	if in.Bowl != nil {
+		// The coarse step along a line: 1/96 of the extent, and at most half
+		// the narrowest sloped wall band (run of a wall from its floor to the
+		// rim), so that no wall is stepped over; 1/1024 of the extent at
+		// least.
 		step := o.SectionStepM
 		if step == 0 {
-			step = math.Max(ext/400, 1e-3)
+			step = ext / 96
+			for _, z := range in.Zones {
+				if band := z.WallSlope * (R - (in.WaterLevelM - z.DepthM)); z.WallSlope > 0 && band > 0 {
+					step = math.Min(step, band/2)
+				}
+			}
+			step = math.Max(step, ext/1024)
 		}
 		ap := &analyticProfile{bowl: in.Bowl, rim: R, step: step}
+		// The raster overstates lines on sloped walls (its capped cells
+		// reach past the rim) and understates them by at most a couple of
+		// its steps; but a wall steeper than the lattice resolves (a band
+		// narrower than two cells, vertical included) it smears into a
+		// gentle slope, and a line crossing it at a grazing angle loses up
+		// to the wall's height at each of its two crossings.
+		slack := 2 * ras.h
 		for _, z := range in.Zones {
-			if len(z.Ring) >= 3 {
-				ap.rings = append(ap.rings, breakRing{ring: z.Ring, vertical: z.WallSlope == 0})
+			if len(z.Ring) < 3 {
+				continue
+			}
+			ap.rings = append(ap.rings, breakRing{ring: z.Ring, vertical: z.WallSlope == 0})
+			h := R - (in.WaterLevelM - z.DepthM)
+			if z.WallSlope*h < 2*cell {
+				slack += 2 * math.Max(h, 0)
 			}
 		}
 		s.exact = ap
-		s.exactLines = 100
+		s.exactLines = s.fineLines
+		s.guided = true
+		s.slack = slack
 		res.SectionMethod = "analytic"
 	}
 	if o.SectionSpacingM > 0 {
 		// Lines across the widest extent at the given spacing.
 		s.exactLines = max(1, int(math.Ceil(ext/o.SectionSpacingM)))
+		s.fineLines = s.exactLines
 	}
 	fit := s.run([]float64{res.RimRect.AngleDeg})
 	along, across, ang := fit.along, fit.across, fit.angleDeg

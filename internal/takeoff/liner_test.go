@@ -68,7 +68,7 @@ func TestMeasureLiner_RectangleSheet(t *testing.T) {
 	o := DefaultOverlapM
 	for _, s := range []float64{0.5, 1.5, 3} {
 		pc := onePond(t, rectRing(0.037, 0.011, 0.037+L, 0.011+B), w, d, fb, s, 0.1)
-		res, _, _, err := MeasureLiner(LinerInput{Mesh: pc.mesh, RimM: pc.rim, Bowl: pc.bowl, Zones: pc.zones}, LinerOptions{})
+		res, _, _, err := MeasureLiner(pc.liner(), LinerOptions{})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -101,7 +101,7 @@ func TestMeasureLiner_VerticalWalls(t *testing.T) {
 		c := geom.Vec2{X: 0.123, Y: -0.071}
 		r := geom.Ring{c, c.Add(u.Scale(L)), c.Add(u.Scale(L)).Add(n.Scale(B)), c.Add(n.Scale(B))}
 		pc := onePond(t, r, w, d, fb, 0, 0.1)
-		res, _, _, err := MeasureLiner(LinerInput{Mesh: pc.mesh, RimM: pc.rim, Bowl: pc.bowl, Zones: pc.zones}, LinerOptions{})
+		res, _, _, err := MeasureLiner(pc.liner(), LinerOptions{})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -170,7 +170,7 @@ func TestDevelopedLength_TwoLobes(t *testing.T) {
 
 func TestMeasureLiner_Overlap(t *testing.T) {
 	pc := onePond(t, rectRing(0.037, 0.011, 4.037, 2.511), 100, 0.8, 0.15, 1.5, 0.1)
-	in := LinerInput{Mesh: pc.mesh, RimM: pc.rim, Bowl: pc.bowl, Zones: pc.zones}
+	in := pc.liner()
 	r0, _, _, err := MeasureLiner(in, LinerOptions{OverlapM: f64(0)})
 	if err != nil {
 		t.Fatal(err)
@@ -218,7 +218,7 @@ func TestMeasureLiner_Materials(t *testing.T) {
 	// 1 mil = 0.001 in = 25.4 µm exactly (check-values.md §7 [derived]);
 	// the sheet's weight is its stock area × thickness × density.
 	pc := onePond(t, rectRing(0.037, 0.011, 4.037, 2.511), 100, 0.8, 0.15, 1.5, 0.1)
-	in := LinerInput{Mesh: pc.mesh, RimM: pc.rim, Bowl: pc.bowl, Zones: pc.zones}
+	in := pc.liner()
 	for _, tc := range []struct {
 		name  string
 		milM  float64
@@ -258,7 +258,7 @@ func TestMeasureLiner_Materials(t *testing.T) {
 
 func TestMeasureLiner_BadInput(t *testing.T) {
 	pc := onePond(t, rectRing(0, 0, 2, 2), 100, 0.5, 0.1, 1, 0.2)
-	good := LinerInput{Mesh: pc.mesh, RimM: pc.rim, Bowl: pc.bowl, Zones: pc.zones}
+	good := pc.liner()
 	nan := good
 	nan.Mesh = geom.TriMesh{V: append([]geom.Vec3(nil), pc.mesh.V...), T: pc.mesh.T}
 	nan.Mesh.V[3].Z = math.NaN()
@@ -359,7 +359,7 @@ func TestMeasureLiner_SeamWarning(t *testing.T) {
 	// and proposes seamed panels instead of failing.
 	pc := onePond(t, rectRing(0.037, 0.011, 4.037, 2.511), 100, 0.8, 0.15, 1.5, 0.1)
 	st := Stock{WidthsM: []float64{3, 4}, LengthsM: []float64{10}, SeamOverlapM: 0.15}
-	res, _, warn, err := MeasureLiner(LinerInput{Mesh: pc.mesh, RimM: pc.rim, Bowl: pc.bowl, Zones: pc.zones}, LinerOptions{Stock: st})
+	res, _, warn, err := MeasureLiner(pc.liner(), LinerOptions{Stock: st})
 	if err != nil {
 		t.Fatal(err)
 	}

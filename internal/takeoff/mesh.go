@@ -209,10 +209,12 @@ const (
 )
 
 // snap moves p onto the level set bowl = level along the line p + t·dir,
-// |t| ≤ reach, by bisection, and reports whether it moved. dir is a unit
-// vector pointing uphill (outwards from the bowl). When the bowl is already
-// within snapZTolM of the level at p, or no change of sign is found within
-// reach, p is returned unchanged.
+// |t| ≤ reach, and reports whether it moved. dir is a unit vector pointing
+// uphill (outwards from the bowl). The crossing is bracketed, then found by
+// the Illinois variant of regula falsi (a few steps on a smooth wall) that
+// falls back to bisection where the bowl jumps (a vertical wall) or is
+// infinite. When the bowl is already within snapZTolM of the level at p,
+// or no change of sign is found within reach, p is returned unchanged.
 func snap(b Bowl, p, dir geom.Vec2, level, reach float64) (geom.Vec2, bool) {
 	g := func(t float64) float64 { return b.BowlAt(p.Add(dir.Scale(t))) - level }
 	g0 := g(0)
@@ -229,16 +231,33 @@ func snap(b Bowl, p, dir geom.Vec2, level, reach float64) (geom.Vec2, bool) {
 		if math.IsNaN(ge) || (ge > 0) == (g0 > 0) {
 			continue
 		}
-		lo, hi := 0.0, end // g(lo) has the sign of g0, g(hi) the other
-		for range 64 {
+		// lo keeps the sign of g0, hi the other.
+		lo, hi, flo, fhi := 0.0, end, g0, ge
+		side := 0
+		for range 100 {
 			if math.Abs(hi-lo) <= snapTolM {
 				break
 			}
-			mid := (lo + hi) / 2
-			if gm := g(mid); (gm > 0) == (g0 > 0) {
-				lo = mid
+			c := (lo + hi) / 2
+			if side != 2 && isFinite(flo) && isFinite(fhi) && fhi != flo {
+				if x := (lo*fhi - hi*flo) / (fhi - flo); (x-lo)*(x-hi) < 0 {
+					c = x
+				}
+			}
+			fc := g(c)
+			if math.Abs(fc) <= snapZTolM {
+				return p.Add(dir.Scale(c)), true
+			}
+			if (fc > 0) == (flo > 0) {
+				if side == -1 {
+					fhi /= 2
+				}
+				lo, flo, side = c, fc, -1
 			} else {
-				hi = mid
+				if side == 1 {
+					flo /= 2
+				}
+				hi, fhi, side = c, fc, 1
 			}
 		}
 		return p.Add(dir.Scale((lo + hi) / 2)), true

@@ -91,11 +91,15 @@ func (r *raster) fill(a, b, c geom.Vec3) {
 
 // at returns the bilinear interpolation of the capped grid at p.
 func (r *raster) at(p geom.Vec2) float64 {
+	return r.atGrid((p.X-r.x0)/r.h, (p.Y-r.y0)/r.h)
+}
+
+// atGrid is at for a point given in grid units: (fx, fy) is node
+// (i, j) + the fractions.
+func (r *raster) atGrid(fx, fy float64) float64 {
 	if r.nx < 2 || r.ny < 2 {
 		return r.cap
 	}
-	fx := (p.X - r.x0) / r.h
-	fy := (p.Y - r.y0) / r.h
 	if !(fx >= 0 && fy >= 0 && fx <= float64(r.nx-1) && fy <= float64(r.ny-1)) {
 		return r.cap
 	}

@@ -1,7 +1,9 @@
 package takeoff
 
 import (
+	"cmp"
 	"math"
+	"slices"
 
 	"github.com/dugout-estimating/dugout/internal/geom"
 )
@@ -17,9 +19,11 @@ import (
 //     sheet turned);
 //  2. golden-section refinement of the best local minima on the raster, with
 //     more lines and the line offset refined;
-//  3. the refined angles and any extra candidates (the rim's minimum-area
-//     rectangle) measured on the exact profiler (the analytic bowl when
-//     there is one); the least area wins, ties to the earlier candidate.
+//  3. the extra candidates (the rim's minimum-area rectangle) and the best
+//     refined angle (the second best too when its raster area is within
+//     secondRel of it) measured on the exact profiler (the analytic bowl
+//     when there is one); the least area wins, ties to the earlier
+//     candidate.
 type sheetSearch struct {
 	coarse, fine, exact profiler
 	hull                []geom.Vec2 // convex hull of the lined area
@@ -28,6 +32,10 @@ type sheetSearch struct {
 	coarseLines         int
 	fineLines           int
 	exactLines          int
+	// guided makes the exact stage measure only the lines the fine raster
+	// ranks within slack (m) of its longest (see longestGuided).
+	guided bool
+	slack  float64
 }
 
 const (
@@ -35,13 +43,23 @@ const (
 	// varies smoothly with θ between the hull's edge directions, and local
 	// minima closer than this merge into one valley that refinement follows.
 	coarseStepDeg = 2.0
-	// refineTolDeg ends the golden-section search on the angle: a sheet
-	// 30 m long turned by 0.01° moves its corner by 5 mm, and the area is
-	// flat (second order) at a minimum.
-	refineTolDeg = 0.01
+	// refineTolDeg ends the golden-section search on the angle: the area is
+	// flat (second order) at a minimum, and the raster ranks angles to
+	// about this anyway.
+	refineTolDeg = 0.05
 	// refineCandidates is how many local minima of the coarse scan are
-	// refined.
-	refineCandidates = 3
+	// refined: the best, and the second when its coarse area is within
+	// secondRel of the best.
+	refineCandidates = 2
+	// sameAngleDeg: a refined angle this close to a candidate already
+	// listed (the rim rectangle's) is not measured again; the sheet's area
+	// is flat at its minimum, so the two would differ by a fraction of the
+	// raster's own error.
+	sameAngleDeg = 0.5
+	// secondRel: a second refined angle is measured exactly when its raster
+	// sheet area is within 2 % of the best, more than the raster's error on
+	// a sheet (a few raster steps on each side).
+	secondRel = 0.02
 )
 
 // sheetFit is the measured sheet: developed lengths along and across the
@@ -54,6 +72,16 @@ func (s *sheetSearch) area(p profiler, lines int, refine bool, deg float64) (flo
 	th := deg * math.Pi / 180
 	a := longestSection(p, s.hull, th, lines, refine, s.margin)
 	c := longestSection(p, s.hull, th+math.Pi/2, lines, refine, s.margin)
+	return (a + 2*s.overlap) * (c + 2*s.overlap), a, c
+}
+
+func (s *sheetSearch) exactArea(deg float64) (float64, float64, float64) {
+	if !s.guided {
+		return s.area(s.exact, s.exactLines, true, deg)
+	}
+	th := deg * math.Pi / 180
+	a := longestGuided(s.exact, s.fine, s.hull, th, s.exactLines, s.slack, s.margin)
+	c := longestGuided(s.exact, s.fine, s.hull, th+math.Pi/2, s.exactLines, s.slack, s.margin)
 	return (a + 2*s.overlap) * (c + 2*s.overlap), a, c
 }
 
@@ -81,8 +109,12 @@ func (s *sheetSearch) run(extra []float64) sheetFit {
 	if len(minima) > refineCandidates {
 		minima = minima[:refineCandidates]
 	}
+	if len(minima) == 2 && area[minima[1]] > area[minima[0]]*(1+secondRel) {
+		minima = minima[:1]
+	}
 	// 2. Refine on the raster.
-	cands := append([]float64(nil), extra...)
+	type cand struct{ deg, area float64 }
+	var refined []cand
 	for _, j := range minima {
 		lo := float64(j)*coarseStepDeg - coarseStepDeg
 		hi := float64(j)*coarseStepDeg + coarseStepDeg
@@ -104,9 +136,25 @@ func (s *sheetSearch) run(extra []float64) sheetFit {
 			}
 		}
 		if f1 <= f2 {
-			cands = append(cands, x1)
+			refined = append(refined, cand{x1, f1})
 		} else {
-			cands = append(cands, x2)
+			refined = append(refined, cand{x2, f2})
+		}
+	}
+	slices.SortStableFunc(refined, func(a, b cand) int { return cmp.Compare(a.area, b.area) })
+	cands := append([]float64(nil), extra...)
+	for i, c := range refined {
+		if i > 0 && c.area > refined[0].area*(1+secondRel) {
+			continue
+		}
+		near := false
+		for _, d := range cands {
+			if da := math.Abs(normAngle(d) - normAngle(c.deg)); math.Min(da, 180-da) < sameAngleDeg {
+				near = true
+			}
+		}
+		if !near {
+			cands = append(cands, c.deg)
 		}
 	}
 	// 3. Measure the candidates exactly.
@@ -114,7 +162,7 @@ func (s *sheetSearch) run(extra []float64) sheetFit {
 	bestArea := math.Inf(1)
 	for _, d := range cands {
 		d = normAngle(d)
-		a, along, across := s.area(s.exact, s.exactLines, true, d)
+		a, along, across := s.exactArea(d)
 		if a < bestArea*(1-tieRel) {
 			bestArea = a
 			best = sheetFit{along: along, across: across, angleDeg: d}

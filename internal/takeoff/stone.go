@@ -122,31 +122,9 @@ type EdgeStoneResult struct {
 // negative allowance, or a stretch that is not on the shoreline.
 func EdgeStone(sh ShorelineResult, o EdgeStoneOptions) (EdgeStoneResult, error) {
 	var res EdgeStoneResult
-	name := o.Rock
-	if strings.TrimSpace(name) == "" {
-		name = "granite"
-	}
-	rock, err := RockByName(name)
+	rock, err := o.check()
 	if err != nil {
 		return res, err
-	}
-	if o.DensityKgM3 != 0 {
-		if !(o.DensityKgM3 > 0) || math.IsInf(o.DensityKgM3, 0) {
-			return res, optionError("stone density", o.DensityKgM3, "> 0 kg/m³")
-		}
-		rock.DensityKgM3 = o.DensityKgM3
-	}
-	switch {
-	case !(o.FaceHeightM > 0) || math.IsInf(o.FaceHeightM, 0):
-		return res, optionError("stone face height", o.FaceHeightM, "> 0 m")
-	case !(o.ThicknessM > 0) || math.IsInf(o.ThicknessM, 0):
-		return res, optionError("stone thickness", o.ThicknessM, "> 0 m")
-	case !(o.VoidFraction >= 0 && o.VoidFraction < 1):
-		return res, optionError("stone void fraction", o.VoidFraction, "in [0, 1)")
-	case !(o.BoulderPercent >= 0) || math.IsInf(o.BoulderPercent, 0):
-		return res, optionError("boulder allowance", o.BoulderPercent, ">= 0 %")
-	case !(o.BoulderKg >= 0) || math.IsInf(o.BoulderKg, 0):
-		return res, optionError("boulder allowance", o.BoulderKg, ">= 0 kg")
 	}
 	length := sh.LengthM
 	if len(o.Stretches) > 0 {
@@ -169,6 +147,38 @@ func EdgeStone(sh ShorelineResult, o EdgeStoneOptions) (EdgeStoneResult, error) 
 	res.Stone = MassOf(kg)
 	res.Boulders = MassOf(kg*o.BoulderPercent/100 + o.BoulderKg)
 	return res, nil
+}
+
+// check validates o and returns its rock with the density override
+// applied.
+func (o EdgeStoneOptions) check() (Rock, error) {
+	name := o.Rock
+	if strings.TrimSpace(name) == "" {
+		name = "granite"
+	}
+	rock, err := RockByName(name)
+	if err != nil {
+		return rock, err
+	}
+	if o.DensityKgM3 != 0 {
+		if !(o.DensityKgM3 > 0) || math.IsInf(o.DensityKgM3, 0) {
+			return rock, optionError("stone density", o.DensityKgM3, "> 0 kg/m³")
+		}
+		rock.DensityKgM3 = o.DensityKgM3
+	}
+	switch {
+	case !(o.FaceHeightM > 0) || math.IsInf(o.FaceHeightM, 0):
+		return rock, optionError("stone face height", o.FaceHeightM, "> 0 m")
+	case !(o.ThicknessM > 0) || math.IsInf(o.ThicknessM, 0):
+		return rock, optionError("stone thickness", o.ThicknessM, "> 0 m")
+	case !(o.VoidFraction >= 0 && o.VoidFraction < 1):
+		return rock, optionError("stone void fraction", o.VoidFraction, "in [0, 1)")
+	case !(o.BoulderPercent >= 0) || math.IsInf(o.BoulderPercent, 0):
+		return rock, optionError("boulder allowance", o.BoulderPercent, ">= 0 %")
+	case !(o.BoulderKg >= 0) || math.IsInf(o.BoulderKg, 0):
+		return rock, optionError("boulder allowance", o.BoulderKg, ">= 0 kg")
+	}
+	return rock, nil
 }
 
 // ParseBoulderAllowance reads a feature-boulder allowance written as a

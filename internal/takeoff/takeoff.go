@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/dugout-estimating/dugout/internal/contours"
 	"github.com/dugout-estimating/dugout/internal/geom"
 	"github.com/dugout-estimating/dugout/internal/units"
 )
@@ -44,10 +45,9 @@ type Input struct {
 	// WaterLevelM and RimM are the water level and the rim (water level +
 	// freeboard).
 	WaterLevelM, RimM float64
-	// WaterLines are the contour lines of BowlMesh at WaterLevelM.
-	WaterLines []Line
 	// Water quantities of the design; a zero volume, area or maximum depth
-	// is measured on the mesh instead.
+	// is measured on the mesh instead (area and volume below the water
+	// level, depth from the water to the lowest vertex).
 	WaterVolumeM3, WaterAreaM2, MaxDepthM, MeanDepthM float64
 	// MaxCutDepthM is the deepest excavation below existing ground (for the
 	// cautions); 0 means the rim-to-deepest depth.
@@ -90,7 +90,8 @@ type Result struct {
 	Warnings []string `json:"warnings"`
 }
 
-// Compute runs the whole takeoff on in. Errors: an empty mesh, levels that
+// Compute runs the whole takeoff on in. Every option is checked before
+// the geometry is measured. Errors: an empty or invalid mesh, levels that
 // are not finite or a rim below the water, and every option error of the
 // parts.
 func Compute(in Input, o Options) (Result, error) {
@@ -101,18 +102,70 @@ func Compute(in Input, o Options) (Result, error) {
 	if in.RimM < in.WaterLevelM {
 		return res, fmt.Errorf("%w: the rim at %.3f m is below the water level at %.3f m", ErrInput, in.RimM, in.WaterLevelM)
 	}
+	if in.BowlMesh.NumTriangles() == 0 {
+		return res, fmt.Errorf("%w: the bowl mesh has no triangles", ErrInput)
+	}
+	if err := validateMesh(in.BowlMesh); err != nil {
+		return res, err
+	}
 	if in.TriangleZone != nil && len(in.TriangleZone) != in.BowlMesh.NumTriangles() {
 		return res, fmt.Errorf("%w: %d triangle zones for %d triangles", ErrInput, len(in.TriangleZone), in.BowlMesh.NumTriangles())
 	}
-	liner, under, warn, err := MeasureLiner(LinerInput{Mesh: in.BowlMesh, RimM: in.RimM, Bowl: in.Bowl, Zones: in.Zones}, o.Liner)
+
+	// Cheap parts first, so that a bad option fails before the sheet
+	// search: water and pump, gravel, the stone and crew options, prices.
+	deepest := math.Inf(1)
+	for _, v := range in.BowlMesh.V {
+		deepest = math.Min(deepest, v.Z)
+	}
+	maxDepth := in.MaxDepthM
+	if maxDepth == 0 {
+		maxDepth = math.Max(0, in.WaterLevelM-deepest)
+	}
+	area := in.WaterAreaM2
+	if area == 0 {
+		area = PlanArea(in.BowlMesh, in.WaterLevelM)
+	}
+	vol := in.WaterVolumeM3
+	if vol == 0 {
+		vol = VolumeBelow(in.BowlMesh, in.WaterLevelM)
+	}
+	var err error
+	res.Water, res.Pump, err = WaterAndPump(vol, area, maxDepth, in.MeanDepthM, in.WaterLevelM, o.Water)
+	if err != nil {
+		return res, err
+	}
+	var rows []GravelRow
+	if len(o.Gravel) > 0 {
+		if rows, err = Gravel(zoneAreas(in), o.Gravel); err != nil {
+			return res, err
+		}
+	}
+	if o.EdgeStone != nil {
+		if _, err := o.EdgeStone.check(); err != nil {
+			return res, err
+		}
+	}
+	co, err := o.Crew.withDefaults()
+	if err != nil {
+		return res, err
+	}
+	if o.Prices != nil {
+		if _, err := Cost(CostQuantities{}, *o.Prices); err != nil {
+			return res, err
+		}
+	}
+
+	liner, under, warn, err := MeasureLiner(LinerInput{Mesh: in.BowlMesh, RimM: in.RimM, WaterLevelM: in.WaterLevelM,
+		Bowl: in.Bowl, Zones: in.Zones}, o.Liner)
 	if err != nil {
 		return res, err
 	}
 	res.Liner, res.Underlayment = liner, under
 	res.Warnings = append(res.Warnings, warn...)
 
-	sh, err := MeasureShoreline(ShorelineInput{Lines: in.WaterLines, WaterLevelM: in.WaterLevelM, Mesh: in.BowlMesh,
-		Bowl: in.Bowl, Zones: in.Zones}, o.Shoreline)
+	sh, err := MeasureShoreline(ShorelineInput{Lines: TraceWaterLine(in.BowlMesh, in.WaterLevelM), WaterLevelM: in.WaterLevelM,
+		Mesh: in.BowlMesh, Bowl: in.Bowl, Zones: in.Zones}, o.Shoreline)
 	if err != nil {
 		return res, err
 	}
@@ -121,7 +174,6 @@ func Compute(in Input, o Options) (Result, error) {
 	}
 	res.Shoreline = sh
 
-	// Stone and gravel.
 	var edge *EdgeStoneResult
 	if o.EdgeStone != nil {
 		e, err := EdgeStone(sh, *o.EdgeStone)
@@ -130,58 +182,13 @@ func Compute(in Input, o Options) (Result, error) {
 		}
 		edge = &e
 	}
-	var rows []GravelRow
-	if len(o.Gravel) > 0 {
-		rows, err = Gravel(zoneAreas(in), o.Gravel)
-		if err != nil {
-			return res, err
-		}
-	}
 	res.Stone = stoneTotals(edge, rows)
-
-	// Crew.
-	co := o.Crew
-	if co.Size < 0 || co.TonsPerWorkerHour < 0 || co.MachineTonsPerHour < 0 || co.HoursPerDay < 0 {
-		return res, fmt.Errorf("%w: crew size %d, rates %g and %g short tons per hour and %g hours per day must not be negative",
-			ErrOption, co.Size, co.TonsPerWorkerHour, co.MachineTonsPerHour, co.HoursPerDay)
-	}
-	if co.Size == 0 {
-		co.Size = DefaultCrewSize
-	}
-	if co.TonsPerWorkerHour == 0 {
-		co.TonsPerWorkerHour = DefaultTonsPerWorkerHour
-	}
-	if co.MachineTonsPerHour == 0 {
-		co.MachineTonsPerHour = DefaultMachineTonsPerHour
-	}
-	if co.HoursPerDay == 0 {
-		co.HoursPerDay = DefaultHoursPerDay
-	}
 	res.Crew, err = CrewTime(res.Stone.EdgeTons+res.Stone.GravelTons, res.Stone.BoulderTons,
 		co.TonsPerWorkerHour, co.Size, co.MachineTonsPerHour, co.HoursPerDay)
 	if err != nil {
 		return res, err
 	}
 
-	// Water and pump.
-	area := in.WaterAreaM2
-	if area == 0 {
-		area = sh.WaterAreaM2
-	}
-	maxDepth := in.MaxDepthM
-	if maxDepth == 0 {
-		maxDepth = math.Max(0, in.WaterLevelM-(in.RimM-liner.RimToDeepestM))
-	}
-	vol := in.WaterVolumeM3
-	if vol == 0 {
-		vol = VolumeBelow(in.BowlMesh, in.WaterLevelM)
-	}
-	res.Water, res.Pump, err = WaterAndPump(vol, area, maxDepth, in.MeanDepthM, in.WaterLevelM, o.Water)
-	if err != nil {
-		return res, err
-	}
-
-	// Cost.
 	if o.Prices != nil {
 		q := CostQuantities{CutM3: in.CutM3, Truckloads: in.Truckloads, LinerAreaM2: liner.Stock.AreaM2,
 			StoneKg:  (res.Stone.EdgeTons + res.Stone.BoulderTons) * units.ShortTon,
@@ -205,9 +212,45 @@ func Compute(in Input, o Options) (Result, error) {
 	return res, nil
 }
 
+// withDefaults fills the zero fields of a crew with the defaults and
+// rejects negative ones.
+func (co CrewOptions) withDefaults() (CrewOptions, error) {
+	if co.Size < 0 || co.TonsPerWorkerHour < 0 || co.MachineTonsPerHour < 0 || co.HoursPerDay < 0 {
+		return co, fmt.Errorf("%w: crew size %d, rates %g and %g short tons per hour and %g hours per day must not be negative",
+			ErrOption, co.Size, co.TonsPerWorkerHour, co.MachineTonsPerHour, co.HoursPerDay)
+	}
+	if co.Size == 0 {
+		co.Size = DefaultCrewSize
+	}
+	if co.TonsPerWorkerHour == 0 {
+		co.TonsPerWorkerHour = DefaultTonsPerWorkerHour
+	}
+	if co.MachineTonsPerHour == 0 {
+		co.MachineTonsPerHour = DefaultMachineTonsPerHour
+	}
+	if co.HoursPerDay == 0 {
+		co.HoursPerDay = DefaultHoursPerDay
+	}
+	return co, nil
+}
+
+// TraceWaterLine returns the contour lines of the bowl mesh at the water
+// level, traced by package contours.
+func TraceWaterLine(m geom.TriMesh, level float64) []Line {
+	cl := contours.TraceLevel(m, level)
+	out := make([]Line, len(cl))
+	for i, l := range cl {
+		out[i] = Line{Pts: l.Pts, Closed: l.Closed}
+	}
+	return out
+}
+
 // zoneAreas returns each zone's floor area and, when triangle owners are
-// known, the developed area of its sloped (non-level) triangles below the
-// rim; -1 otherwise.
+// known, its wall area: the developed area below the rim of the triangles
+// it owns less its floor's plan area (the floor is flat, so its developed
+// and plan areas agree; subtracting the design's floor area rather than
+// summing level triangles keeps the cells that straddle the floor's edge
+// from being counted twice). Without owners the wall area is -1.
 func zoneAreas(in Input) []ZoneArea {
 	za := make([]ZoneArea, len(in.Zones))
 	for i, z := range in.Zones {
@@ -219,23 +262,20 @@ func zoneAreas(in Input) []ZoneArea {
 	if in.TriangleZone == nil {
 		return za
 	}
-	walls := make([]geom.Sum, len(in.Zones))
+	dev := make([]geom.Sum, len(in.Zones))
 	m := in.BowlMesh
 	for t := range m.NumTriangles() {
 		k := in.TriangleZone[t]
-		if k < 0 || k >= len(walls) {
+		if k < 0 || k >= len(dev) {
 			continue
 		}
 		a, b, c := m.Triangle(t)
-		if a.Z == b.Z && b.Z == c.Z {
-			continue // a floor
-		}
 		if f := belowFraction(a.Z, b.Z, c.Z, in.RimM); f > 0 {
-			walls[k].Add(f * geom.SurfaceArea(a, b, c))
+			dev[k].Add(f * geom.SurfaceArea(a, b, c))
 		}
 	}
 	for i := range za {
-		za[i].WallAreaM2 = walls[i].Value()
+		za[i].WallAreaM2 = math.Max(0, dev[i].Value()-za[i].FloorAreaM2)
 	}
 	return za
 }
