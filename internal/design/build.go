@@ -71,7 +71,9 @@ func Build(g Terrain, p Params) (*Surface, error) {
 				}
 				break
 			}
-		} else if k >= 2 && cur.change < refineTarget {
+		} else if k >= 2 && cur.change < refineTarget && prev.change < 8*refineTarget {
+			// Two small changes in a row: one alone can be luck at coarse
+			// cells, where the error is not yet of clean second order.
 			break
 		} else if h/2 < MinCellM {
 			b.warnf("stopped at the finest cell, %g m, with halving changing cut or fill by %.2g %%", h, 100*cur.change)
@@ -143,15 +145,16 @@ func (b *builder) warnf(format string, args ...any) {
 }
 
 // startCell picks the first cell of the automatic choice: a power of two
-// of metres, at most a sixteenth of the smallest zone's width scale
-// (√area) and a thirty-second of the rim set's extent.
+// of metres, at most an eighth of the largest zone's width scale (√area)
+// and a sixteenth of the rim set's extent. Smaller zones need no finer
+// start: the refinement test sees their error like any other.
 func (b *builder) startCell() float64 {
-	s := math.Inf(1)
+	a := 0.0
 	for i := range b.zs.z {
-		s = min(s, math.Sqrt(b.zs.z[i].area)/16)
+		a = max(a, b.zs.z[i].area)
 	}
 	rb := b.zs.rimBox()
-	s = min(s, max(rb.Width(), rb.Height())/32)
+	s := min(math.Sqrt(a)/8, max(rb.Width(), rb.Height())/16)
 	return math.Exp2(math.Floor(math.Log2(s)))
 }
 
@@ -165,6 +168,7 @@ type level struct {
 	change float64
 	gmin   float64
 	gmax   float64
+	hasNaN bool // some node is off the surveyed surface
 	// For LevelBalance: the level found here and on the coarser lattice.
 	wFound, wBefore float64
 }
@@ -241,7 +245,9 @@ func (b *builder) build(h float64, box geom.Box) (*level, error) {
 	lv.fd = newField(b.zs, lat)
 	lv.gmin, lv.gmax = math.Inf(1), math.Inf(-1)
 	for _, z := range lv.g {
-		if !math.IsNaN(z) {
+		if math.IsNaN(z) {
+			lv.hasNaN = true
+		} else {
 			lv.gmin, lv.gmax = min(lv.gmin, z), max(lv.gmax, z)
 		}
 	}
@@ -305,8 +311,10 @@ func (b *builder) evalAt(lv *level, h, w float64) (*level, error) {
 		box = box.Expand(0.25*max(box.Width(), box.Height()) + 4*h)
 		lv = nil
 	}
-	if err := b.coverage(lv); err != nil {
-		return nil, err
+	if lv.hasNaN {
+		if err := b.coverage(lv); err != nil {
+			return nil, err
+		}
 	}
 	return lv, nil
 }
@@ -319,6 +327,7 @@ func (b *builder) coverage(lv *level) error {
 	l := fd.lat
 	f := b.zs.freeboard
 	needed, inBowl := false, false
+	edge := map[int]bool{} // unsurveyed nodes next to surveyed earthwork
 	for j := 0; j < l.NY; j++ {
 		for i := 0; i < l.NX; i++ {
 			k := l.Index(i, j)
@@ -334,6 +343,7 @@ func (b *builder) coverage(lv *level) error {
 			for _, q := range [4][2]int{{i - 1, j}, {i + 1, j}, {i, j - 1}, {i, j + 1}} {
 				if q[0] >= 0 && q[0] < l.NX && q[1] >= 0 && q[1] < l.NY && math.IsNaN(lv.g[l.Index(q[0], q[1])]) {
 					needed = true
+					edge[l.Index(q[0], q[1])] = true
 				}
 			}
 		}
@@ -353,7 +363,7 @@ func (b *builder) coverage(lv *level) error {
 		}
 		e := fd.e[k]
 		bz := lv.w + f - max(0, fd.rho[k]-b.berm.crest)/b.berm.slope
-		if e <= f || lv.w+e < lv.gmax || bz > lv.gmin {
+		if edge[k] || e <= f || lv.w+e < lv.gmax || bz > lv.gmin {
 			oe.BeyondM = max(oe.BeyondM, dist[k])
 			oe.Box = oe.Box.Extend(l.Node(k%l.NX, k/l.NX))
 		}

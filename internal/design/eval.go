@@ -87,7 +87,9 @@ type bandSums struct {
 
 // evaluate fills d with the finished grade for water level w and returns
 // the cut and fill against existing ground g (NaN outside the survey;
-// such cells are skipped).
+// such cells are skipped). Each row of cells is summed plainly (at most a
+// few thousand terms of one sign, so the relative rounding stays near
+// 1e-13) and rows are added with compensation, band by band.
 func (fd *field) evaluate(w float64, g, d []float64, b berm) volumes {
 	zs := fd.zs
 	l := fd.lat
@@ -97,44 +99,47 @@ func (fd *field) evaluate(w float64, g, d []float64, b berm) volumes {
 		}
 	})
 	nb := (l.NY - 1 + bandRows - 1) / bandRows
+	nz := len(zs.z)
 	sums := make([]bandSums, nb)
 	area := l.CellArea()
 	forBands(l.NY-1, func(band, j0, j1 int) {
 		s := &sums[band]
-		s.zc, s.zf = make([]geom.Sum, len(zs.z)), make([]geom.Sum, len(zs.z))
+		s.zc, s.zf = make([]geom.Sum, nz), make([]geom.Sum, nz)
+		rzc, rzf := make([]float64, nz), make([]float64, nz)
 		var buf clipBuf
 		sp := fd.splitsIn(j0, j1)
 		var f, fin [4]float64
 		for cj := j0; cj < j1; cj++ {
+			var rc, rf, rca, rfa float64
+			touched := false
 			for ci := 0; ci+1 < l.NX; ci++ {
 				c := ci + cj*l.NX
-				nd := fd.cellNodes(c)
-				nan := false
-				zero := true
-				for m, k := range nd {
-					f[m] = g[k] - d[k]
-					nan = nan || math.IsNaN(f[m])
-					zero = zero && f[m] == 0
-				}
 				isSplit := len(sp) > 0 && sp[0].cell == c
-				if nan || (zero && !isSplit) {
+				k0, k1, k2, k3 := c, c+1, c+l.NX, c+l.NX+1
+				f = [4]float64{g[k0] - d[k0], g[k1] - d[k1], g[k2] - d[k2], g[k3] - d[k3]}
+				if !isSplit && f[0] == 0 && f[1] == 0 && f[2] == 0 && f[3] == 0 {
+					continue
+				}
+				if math.IsNaN(f[0] + f[1] + f[2] + f[3]) {
 					if isSplit {
 						sp = sp[1:]
 					}
 					continue
 				}
-				var own [4]int32
-				for m, k := range nd {
-					own[m] = fd.volOwner(k)
+				touched = true
+				nd := [4]int{k0, k1, k2, k3}
+				var x *split
+				if isSplit {
+					x = &sp[0]
+					sp = sp[1:]
+					for m, k := range nd {
+						f[m] = g[k] - zs.finished(w, x.eOut[m], fd.rho[k], g[k], b)
+						fin[m] = g[k] - zs.finished(w, x.eIn[m], fd.rho[k], g[k], b)
+					}
 				}
 				for t := range 2 {
 					var pos, neg, pa, na float64
-					if isSplit {
-						x := &sp[0]
-						for m, k := range nd {
-							f[m] = g[k] - zs.finished(w, x.eOut[m], fd.rho[k], g[k], b)
-							fin[m] = g[k] - zs.finished(w, x.eIn[m], fd.rho[k], g[k], b)
-						}
+					if x != nil {
 						p0, n0, pa0, na0 := triParts(t, area, &f)
 						p1, n1, pa1, na1 := polyParts(t, area, &f, x.part[t], &buf)
 						p2, n2, pa2, na2 := polyParts(t, area, &fin, x.part[t], &buf)
@@ -143,24 +148,33 @@ func (fd *field) evaluate(w float64, g, d []float64, b berm) volumes {
 					} else {
 						pos, neg, pa, na = triParts(t, area, &f)
 					}
-					s.cut.Add(pos)
-					s.fill.Add(neg)
-					s.cutA.Add(pa)
-					s.fillA.Add(na)
+					rc += pos
+					rf += neg
+					rca += pa
+					rfa += na
 					for _, m := range triSlots[t] {
-						s.zc[own[m]].Add(pos / 3)
-						s.zf[own[m]].Add(neg / 3)
+						o := fd.volOwner(nd[m])
+						rzc[o] += pos / 3
+						rzf[o] += neg / 3
 					}
 				}
-				if isSplit {
-					sp = sp[1:]
+			}
+			if touched {
+				s.cut.Add(rc)
+				s.fill.Add(rf)
+				s.cutA.Add(rca)
+				s.fillA.Add(rfa)
+				for z := range nz {
+					s.zc[z].Add(rzc[z])
+					s.zf[z].Add(rzf[z])
+					rzc[z], rzf[z] = 0, 0
 				}
 			}
 		}
 	})
 	var v volumes
 	var cut, fill, ca, fa geom.Sum
-	zc, zf := make([]geom.Sum, len(zs.z)), make([]geom.Sum, len(zs.z))
+	zc, zf := make([]geom.Sum, nz), make([]geom.Sum, nz)
 	for i := range sums {
 		s := &sums[i]
 		cut.AddSum(s.cut)
@@ -173,7 +187,7 @@ func (fd *field) evaluate(w float64, g, d []float64, b berm) volumes {
 		}
 	}
 	v.cut, v.fill, v.cutArea, v.fillArea = cut.Value(), fill.Value(), ca.Value(), fa.Value()
-	v.zoneCut, v.zoneFill = make([]float64, len(zs.z)), make([]float64, len(zs.z))
+	v.zoneCut, v.zoneFill = make([]float64, nz), make([]float64, nz)
 	for z := range zc {
 		v.zoneCut[z], v.zoneFill[z] = zc[z].Value(), zf[z].Value()
 	}

@@ -32,6 +32,12 @@ type refDesign struct {
 	M       float64      `json:"m"`
 }
 
+// refineFloor is the least relative error allowed a Build result in
+// comparisons with references: its refinement change estimates the error
+// but can come out smaller by luck at coarse cells; the cell choice aims
+// at 0.1 %, and results land within a fifth of that.
+const refineFloor = 2e-4
+
 func loadRefSite(t *testing.T) refSite {
 	t.Helper()
 	b, err := os.ReadFile("testdata/refbench_site.json")
@@ -120,7 +126,7 @@ func TestBuild_RefbenchMitred(t *testing.T) {
 		}
 		t.Run(ref.Design+" "+ref.Terrain, func(t *testing.T) {
 			sf := site.pit(t, ref.Design, ref.Terrain, Sharp)
-			tol := max(sf.RefineChange, 1e-6)*sf.CutM3 + 3*ref.Spread.Cut + 1e-9
+			tol := max(sf.RefineChange, refineFloor)*sf.CutM3 + 3*ref.Spread.Cut + 1e-9
 			if math.Abs(sf.CutM3-ref.Cut) > tol {
 				t.Errorf("cut = %.6f m³, want %.6f ± %.2g (refbench %s)", sf.CutM3, ref.Cut, tol, ref.Method)
 			}
@@ -160,7 +166,7 @@ func TestBuild_RefbenchRound(t *testing.T) {
 			if ref.Exact != nil {
 				want, refErr, how = *ref.Exact, 0, "closed form"
 			}
-			tol := max(sf.RefineChange, 1e-6)*sf.CutM3 + refErr + 1e-9
+			tol := max(sf.RefineChange, refineFloor)*sf.CutM3 + refErr + 1e-9
 			if math.Abs(sf.CutM3-want) > tol {
 				t.Errorf("cut = %.6f m³, want %.6f ± %.2g (refbench round, %s)", sf.CutM3, want, tol, how)
 			}

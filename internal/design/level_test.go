@@ -1,0 +1,122 @@
+package design
+
+import (
+	"errors"
+	"math"
+	"testing"
+
+	"github.com/dugout-estimating/dugout/internal/geom"
+)
+
+func TestBuild_AutoLevel(t *testing.T) {
+	// On a plane G = z0 + g·p, the lowest ground along the rim line of a
+	// convex round-cornered zone is min over the zone's vertices v of
+	// G(v) − r·|g|, where r = s·(d + f) is the rim line's distance from the
+	// zone (the minimum of a linear function over a polygon dilated by a
+	// disc: support functions add). Auto sets W to that minus f.
+	const z0, gx, gy = 100.0, 0.05, -0.03
+	r := ring(-2, -1.5, 2.5, -1.5, 3, 1, -1, 2)
+	for _, tc := range []struct {
+		name    string
+		s, d, f float64
+	}{{"1:1", 1, 0.6, 0.1}, {"2:1", 2, 0.9, 0.2}, {"steep", 0.5, 0.4, 0.05}} {
+		t.Run(tc.name, func(t *testing.T) {
+			p := Params{Zones: []Zone{{Ring: r, DepthM: tc.d, WallSlope: tc.s}}, Level: LevelAuto,
+				FreeboardM: tc.f, BermCrestM: 0.3}
+			s, err := Build(plane(z0, gx, gy, 50), p)
+			if err != nil {
+				t.Fatal(err)
+			}
+			low := math.Inf(1)
+			for _, v := range r {
+				low = min(low, z0+gx*v.X+gy*v.Y)
+			}
+			want := low - tc.s*(tc.d+tc.f)*math.Hypot(gx, gy) - tc.f
+			if math.Abs(s.WaterLevelM-want) > 1e-5 || s.Level != LevelAuto {
+				t.Errorf("auto water level = %.7f (%v), want %.7f", s.WaterLevelM, s.Level, want)
+			}
+			// With the rim at the lowest ground on the rim line the berm
+			// crest is the only fill, a thin sliver at the low point.
+			if s.FillM3 > 0.01*s.CutM3 {
+				t.Errorf("fill %g m³ against cut %g m³ at the auto level", s.FillM3, s.CutM3)
+			}
+		})
+	}
+}
+
+func TestBuild_AutoLevelVertical(t *testing.T) {
+	// A vertical-walled zone: the rim line is the outline itself, so the
+	// rim sits at the ground's lowest vertex.
+	r := rect(0, 0, 3, 2)
+	s, err := Build(plane(50, 0.1, 0.2, 20), Params{Zones: []Zone{{Ring: r, DepthM: 0.5}}, Level: LevelAuto, FreeboardM: 0.1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := 50 - 0.1; math.Abs(s.WaterLevelM-want) > 1e-9 {
+		t.Errorf("auto water level = %.9f, want %.9f", s.WaterLevelM, want)
+	}
+}
+
+func TestBuild_Balance(t *testing.T) {
+	// The balance level satisfies its definition: rebuilding at that fixed
+	// level on the same lattice gives FillPerCut × cut = fill.
+	g, _, zones := slopedYard()
+	for _, k := range []float64{0.8, 1, 1.25} {
+		p := Params{Zones: zones, Level: LevelBalance, FillPerCut: k, FreeboardM: 0.15, BermCrestM: 0.5, BermSlope: 2}
+		s, err := Build(g, p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if s.Level != LevelBalance {
+			t.Errorf("Level = %v, want balance", s.Level)
+		}
+		q := p
+		q.Level, q.WaterLevelM, q.CellM = LevelFixed, s.WaterLevelM, s.CellM
+		f, err := Build(g, q)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if d := k*f.CutM3 - f.FillM3; math.Abs(d) > 1e-4*f.CutM3 {
+			t.Errorf("k = %g: at W = %.6f, k·cut − fill = %.3g (cut %.4f, fill %.4f), want 0", k, s.WaterLevelM, d, f.CutM3, f.FillM3)
+		}
+		if math.Abs(s.CutM3-f.CutM3) > 1e-9*f.CutM3 {
+			t.Errorf("k = %g: balance cut %.9f, fixed rebuild %.9f", k, s.CutM3, f.CutM3)
+		}
+	}
+}
+
+func TestBuild_BalanceErrors(t *testing.T) {
+	g, _, zones := slopedYard()
+	_, err := Build(g, Params{Zones: zones, Level: LevelBalance, FreeboardM: 0.1})
+	if !errors.Is(err, ErrParams) {
+		t.Fatalf("balance without FillPerCut: error %v, want ErrParams", err)
+	}
+	// A survey that stops just beyond the pond: raising the water to
+	// balance would need a berm on unsurveyed ground.
+	small := plane(100, 0.06, 0.02, 5)
+	_, err = Build(small, Params{Zones: zones, Level: LevelBalance, FillPerCut: 0.5, FreeboardM: 0.15, BermCrestM: 0.5})
+	var oe *OffSurveyError
+	if !errors.Is(err, ErrNoBalance) || !errors.As(err, &oe) {
+		t.Fatalf("balance on a small survey: error %v, want ErrNoBalance wrapping *OffSurveyError", err)
+	}
+}
+
+func TestBuild_OffSurvey(t *testing.T) {
+	// The zone runs past the survey's east edge at x = 3.
+	g := funcTerrain{f: func(x, y float64) float64 { return 10 }, box: geom.Box{Min: geom.Vec2{X: -10, Y: -10}, Max: geom.Vec2{X: 3, Y: 10}}}
+	_, err := Build(g, Params{Zones: []Zone{{Ring: rect(-1, -1, 2.7, 1), DepthM: 0.5, WallSlope: 1}}, WaterLevelM: 10})
+	var oe *OffSurveyError
+	if !errors.As(err, &oe) || !errors.Is(err, ErrOffSurvey) {
+		t.Fatalf("error = %v, want *OffSurveyError", err)
+	}
+	// The wall daylights 0.5 m beyond the zone, at x = 3.2: the cut needs
+	// ground 0.2 m beyond the edge (the estimate is a bound: it counts
+	// every unsurveyed node the work area could need).
+	if !(oe.BeyondM > 0 && oe.BeyondM < 1) || oe.InBowl {
+		t.Errorf("OffSurveyError = %+v, want a wall less than a metre beyond", oe)
+	}
+	_, err = Build(g, Params{Zones: []Zone{{Ring: rect(1, -1, 4, 1), DepthM: 0.5, WallSlope: 1}}, WaterLevelM: 10})
+	if !errors.As(err, &oe) || !oe.InBowl || oe.BeyondM < 1 {
+		t.Fatalf("error = %v (%+v), want the bowl itself off the survey by more than 1 m", err, oe)
+	}
+}
