@@ -62,8 +62,9 @@ const (
 // It returns a [*ValueError] for a line with fewer than two points, a
 // non-finite coordinate or elevation, or, for geographic output, a point
 // that is not a longitude and latitude; [ErrNoCRSNote] when meta needs a
-// note; and the first error from w. Output is buffered and streamed: the
-// lines are not copied.
+// note; and the first error from w. Output is buffered and streamed (the
+// lines are not copied), so after an error w may hold part of a document:
+// write to a temporary file and rename it only on success.
 func WriteContoursGeoJSON(w io.Writer, lines []contours.Line, toOut CoordMapper, zScale float64, meta GeoJSONMeta) error {
 	gw, err := newGeoJSONWriter(w, toOut, zScale, meta)
 	if err != nil {
@@ -71,18 +72,16 @@ func WriteContoursGeoJSON(w io.Writer, lines []contours.Line, toOut CoordMapper,
 	}
 	var flat []float64
 	for i, l := range lines {
-		item := func(j int) func() string {
-			return func() string { return fmt.Sprintf("contour %d (level %g m), point %d", i, l.Level, j) }
-		}
 		if len(l.Pts) < 2 {
 			return &ValueError{Item: fmt.Sprintf("contour %d (level %g m)", i, l.Level), Field: "points",
 				Value: float64(len(l.Pts)), Reason: "a LineString needs at least 2"}
 		}
 		flat = flat[:0]
 		for j, p := range l.Pts {
-			x, y, err := gw.xy(p, item(j))
-			if err != nil {
-				return err
+			x, y, bad := gw.xy(p)
+			if bad != nil {
+				bad.Item = fmt.Sprintf("contour %d (level %g m), point %d", i, l.Level, j)
+				return bad
 			}
 			flat = append(flat, x, y)
 		}
@@ -119,7 +118,8 @@ type triangleProps struct {
 //
 // It returns a [*ValueError] for a vertex index out of range, a non-finite
 // coordinate, or a geographic point that is not a longitude and latitude;
-// [ErrNoCRSNote] when meta needs a note; and the first error from w.
+// [ErrNoCRSNote] when meta needs a note; and the first error from w, after
+// which w may hold part of a document.
 func WriteTrianglesGeoJSON(w io.Writer, m geom.TriMesh, toOut CoordMapper, zScale float64, meta GeoJSONMeta) error {
 	gw, err := newGeoJSONWriter(w, toOut, zScale, meta)
 	if err != nil {
@@ -132,18 +132,18 @@ func WriteTrianglesGeoJSON(w io.Writer, m geom.TriMesh, toOut CoordMapper, zScal
 	for t := range m.NumTriangles() {
 		for k := range 3 {
 			i := m.T[3*t+k]
-			item := func() string { return fmt.Sprintf("triangle %d, vertex %d", t, i) }
 			if i < 0 || int(i) >= len(m.V) {
 				return &ValueError{Item: fmt.Sprintf("triangle %d", t), Field: "vertex index", Value: float64(i),
 					Reason: fmt.Sprintf("out of range 0 to %d", len(m.V)-1)}
 			}
 			v := m.V[i]
-			x, y, err := gw.xy(v.XY(), item)
-			if err != nil {
-				return err
+			x, y, bad := gw.xy(v.XY())
+			if bad == nil && (math.IsNaN(v.Z) || math.IsInf(v.Z, 0)) {
+				bad = &ValueError{Field: "z", Value: v.Z, Reason: "not finite"}
 			}
-			if math.IsNaN(v.Z) || math.IsInf(v.Z, 0) {
-				return &ValueError{Item: item(), Field: "z", Value: v.Z, Reason: "not finite"}
+			if bad != nil {
+				bad.Item = fmt.Sprintf("triangle %d, vertex %d", t, i)
+				return bad
 			}
 			flat[3*k], flat[3*k+1], flat[3*k+2] = x, y, gw.round(v.Z*gw.zScale, geoJSONElevationDigits)
 		}
@@ -224,24 +224,19 @@ func (gw *geoJSONWriter) round(v float64, d int) float64 {
 	return r
 }
 
-// xy maps p to output coordinates and checks them; item names p in errors.
-func (gw *geoJSONWriter) xy(p geom.Vec2, item func() string) (float64, float64, error) {
+// xy maps p to output coordinates and checks them; a bad value comes back
+// as a ValueError for the caller to name.
+func (gw *geoJSONWriter) xy(p geom.Vec2) (float64, float64, *ValueError) {
 	x, y := gw.toOut(p)
-	for _, c := range []struct {
-		field string
-		v     float64
-	}{{"x", x}, {"y", y}} {
-		if math.IsNaN(c.v) || math.IsInf(c.v, 0) {
-			return 0, 0, &ValueError{Item: item(), Field: c.field, Value: c.v, Reason: "not finite"}
-		}
-	}
-	if gw.geo {
-		if x < -180 || x > 180 {
-			return 0, 0, &ValueError{Item: item(), Field: "longitude", Value: x, Reason: "outside -180 to 180 degrees"}
-		}
-		if y < -90 || y > 90 {
-			return 0, 0, &ValueError{Item: item(), Field: "latitude", Value: y, Reason: "outside -90 to 90 degrees"}
-		}
+	switch {
+	case math.IsNaN(x) || math.IsInf(x, 0):
+		return 0, 0, &ValueError{Field: "x", Value: x, Reason: "not finite"}
+	case math.IsNaN(y) || math.IsInf(y, 0):
+		return 0, 0, &ValueError{Field: "y", Value: y, Reason: "not finite"}
+	case gw.geo && (x < -180 || x > 180):
+		return 0, 0, &ValueError{Field: "longitude", Value: x, Reason: "outside -180 to 180 degrees"}
+	case gw.geo && (y < -90 || y > 90):
+		return 0, 0, &ValueError{Field: "latitude", Value: y, Reason: "outside -90 to 90 degrees"}
 	}
 	return gw.round(x, gw.digits), gw.round(y, gw.digits), nil
 }
