@@ -67,6 +67,9 @@ func TestFuzzRegressions(t *testing.T) {
 		{"geometry collection nesting", "f.geojson", `{"type":"GeometryCollection","geometries":[{"type":"GeometryCollection","geometries":[]}]}`},
 		{"empty point", "f.geojson", `{"type":"Point","coordinates":[]}`},
 		{"null features", "f.geojson", `{"type":"FeatureCollection","features":null}`},
+		// Found by reading the code for overflow: the centre of these
+		// bounds was +Inf, and every local position -Inf.
+		{"coordinates near the float limit", "f.csv", "id,n,e,z\n1,1e308,1e308,1\n2,1.5e308,1.7e308,2\n"},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {

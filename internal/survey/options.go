@@ -30,6 +30,13 @@ const (
 	MaxLineBytes = 1 << 20
 )
 
+// MaxCoordM bounds the magnitude of a world coordinate or elevation, in
+// metres: 1e8 m, two and a half times round the Earth. Every real grid
+// (UTM northings reach 1e7 m, state-plane feet about 1e7 ft) stays far
+// inside, and the bound keeps sums of coordinates, such as the centre of the
+// bounds, from overflowing.
+const MaxCoordM = 1e8
+
 // Options says how to read survey files. The zero value reads metres with
 // --crs auto, the default breakline code "BL" and the default tolerances,
 // and rejects points without elevations.

@@ -191,47 +191,53 @@ func assemble(files []*rawFile, opt *Options) (*Set, error) {
 			f.info.UnitM = 1
 			s.Geographic = true
 		}
-		conv := func(x, y float64, line int) (geom.Vec2, error) {
-			if !f.geographic {
-				return geom.Vec2{X: x * f.hUnitM, Y: y * f.hUnitM}, nil
+		conv := func(x, y, z float64, line int) (geom.Vec3, error) {
+			w := geom.Vec3{X: x * f.hUnitM, Y: y * f.hUnitM, Z: z * f.vUnitM}
+			if f.geographic {
+				e, n, err := target.UTM.Forward(x, y)
+				if err != nil {
+					return geom.Vec3{}, &ParseError{File: f.info.Path, Line: line, Err: fmt.Errorf("%w: %w", ErrCRS, err)}
+				}
+				w.X, w.Y = e, n
 			}
-			e, n, err := target.UTM.Forward(x, y)
-			if err != nil {
-				return geom.Vec2{}, &ParseError{File: f.info.Path, Line: line, Err: fmt.Errorf("%w: %w", ErrCRS, err)}
+			for _, v := range []float64{w.X, w.Y, w.Z} {
+				if math.Abs(v) > MaxCoordM {
+					return geom.Vec3{}, perr(f.info.Path, line, "", ErrRange, "coordinate %s m is beyond any survey (limit %g m): check the units", fmtNum(v), float64(MaxCoordM))
+				}
 			}
-			return geom.Vec2{X: e, Y: n}, nil
+			return w, nil
 		}
 		w := &worlds[i]
 		w.pts = make([]geom.Vec3, len(f.pts))
 		for j, p := range f.pts {
-			v, err := conv(p.x, p.y, p.line)
+			v, err := conv(p.x, p.y, p.z, p.line)
 			if err != nil {
 				return nil, err
 			}
-			w.pts[j] = geom.Vec3{X: v.X, Y: v.Y, Z: p.z * f.vUnitM}
-			box = box.Extend(v)
+			w.pts[j] = v
+			box = box.Extend(v.XY())
 		}
 		for _, l := range f.lines {
 			wl := make([]geom.Vec3, len(l.pts))
 			for j, q := range l.pts {
-				v, err := conv(q[0], q[1], l.line)
+				v, err := conv(q[0], q[1], q[2], l.line)
 				if err != nil {
 					return nil, err
 				}
-				wl[j] = geom.Vec3{X: v.X, Y: v.Y, Z: q[2] * f.vUnitM}
-				box = box.Extend(v)
+				wl[j] = v
+				box = box.Extend(v.XY())
 			}
 			w.lines = append(w.lines, wl)
 		}
 		for _, pg := range f.polys {
 			r := make(geom.Ring, len(pg.ring))
 			for j, q := range pg.ring {
-				v, err := conv(q[0], q[1], 0)
+				v, err := conv(q[0], q[1], 0, 0)
 				if err != nil {
 					return nil, err
 				}
-				r[j] = v
-				box = box.Extend(v)
+				r[j] = v.XY()
+				box = box.Extend(r[j])
 			}
 			w.polys = append(w.polys, r)
 		}

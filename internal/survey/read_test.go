@@ -57,6 +57,8 @@ func TestRead_BadDelimited(t *testing.T) {
 		{"lon/lat with --crs local", "e.csv", "id,lat,lon,alt\n1,44.0,-92.8,200\n", Options{CRS: mustSpec(t, "local")}, ErrCRS, 0, ""},
 		{"lon/lat into a non-UTM grid", "e.csv", "id,lat,lon,alt\n1,44.0,-92.8,200\n", Options{CRS: mustSpec(t, "EPSG:2994")}, ErrCRS, 0, ""},
 		{"--crs EPSG:4326", "e.csv", hdr + "1,5000,1000,100,GS\n", Options{CRS: mustSpec(t, "EPSG:4326")}, ErrCRS, 0, ""},
+		{"coordinate beyond any survey", "e.csv", hdr + "1,1e308,1000,100,GS\n", Options{}, ErrRange, 2, ""},
+		{"elevation beyond any survey", "e.csv", hdr + "1,5000,1000,-2e8,GS\n", Options{}, ErrRange, 2, ""},
 		{"beyond UTM", "e.csv", "id,lat,lon,alt\n1,86.0,10.0,200\n", Options{}, ErrCRS, 0, ""},
 	}
 	for _, tc := range tests {
