@@ -1,19 +1,17 @@
 package main
 
 import (
-	"bufio"
 	"context"
 	"encoding/json"
 	"fmt"
 	"io"
 	"math"
-	"os"
-	"path/filepath"
 	"strings"
 	"text/tabwriter"
 
 	"github.com/spf13/cobra"
 
+	"github.com/dugout-estimating/dugout/internal/report"
 	"github.com/dugout-estimating/dugout/internal/survey"
 	"github.com/dugout-estimating/dugout/internal/units"
 )
@@ -118,7 +116,7 @@ func runPoints(ctx context.Context, opts *pointsOptions) error {
 		return survey.WriteCSV(app.IO.Out, s, export)
 	}
 	if opts.export != "" {
-		if err := writeFileAtomic(opts.export, func(w io.Writer) error { return survey.WriteCSV(w, s, export) }); err != nil {
+		if err := report.WriteFileAtomic(opts.export, func(w io.Writer) error { return survey.WriteCSV(w, s, export) }); err != nil {
 			return err
 		}
 	}
@@ -126,39 +124,6 @@ func runPoints(ctx context.Context, opts *pointsOptions) error {
 		return writePointsJSON(app.IO.Out, s, &sum, opts)
 	}
 	return writePointsText(app.IO.Out, s, &sum, show)
-}
-
-// writeFileAtomic writes a file through a temporary file in the same
-// directory, renamed over path once complete, so that no reader ever sees
-// a half-written file.
-func writeFileAtomic(path string, write func(io.Writer) error) (err error) {
-	tmp, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".*.tmp")
-	if err != nil {
-		return fmt.Errorf("write %s: %w", path, err)
-	}
-	defer func() {
-		if err != nil {
-			tmp.Close()
-			os.Remove(tmp.Name())
-		}
-	}()
-	bw := bufio.NewWriter(tmp)
-	if err = write(bw); err != nil {
-		return fmt.Errorf("write %s: %w", path, err)
-	}
-	if err = bw.Flush(); err != nil {
-		return fmt.Errorf("write %s: %w", path, err)
-	}
-	if err = tmp.Sync(); err != nil {
-		return fmt.Errorf("write %s: %w", path, err)
-	}
-	if err = tmp.Close(); err != nil {
-		return fmt.Errorf("write %s: %w", path, err)
-	}
-	if err = os.Rename(tmp.Name(), path); err != nil {
-		return fmt.Errorf("write %s: %w", path, err)
-	}
-	return nil
 }
 
 // writePointsText prints the summary for a surveyor, aligned, lengths in
