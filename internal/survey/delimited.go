@@ -209,12 +209,13 @@ func headerLayout(path string, line int, names []string, opt *Options, f *rawFil
 	}
 	// Preference: an elevation (orthometric) over a plain altitude over an
 	// ellipsoidal height.
-	for _, r := range []role{roleElev, roleAlt, roleEllH} {
+	zOrder := []role{roleElev, roleAlt, roleEllH}
+	for _, r := range zOrder {
 		if i, ok := zCols[r]; ok {
 			lay.z = r
 			lay.idx[r] = i
-			for r2, j := range zCols {
-				if r2 != r && j != i {
+			for _, r2 := range zOrder {
+				if j, ok := zCols[r2]; ok && r2 != r && j != i {
 					f.warn(line, "column %q not used: elevations are taken from %q", names[j], names[i])
 				}
 			}

@@ -6,7 +6,9 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"maps"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -289,7 +291,10 @@ type gjProps struct {
 func featureProps(ft *geojson.Feature) gjProps {
 	p := gjProps{id: ft.ID, hacc: nan, vacc: nan}
 	var desc string
-	for k, v := range ft.Properties {
+	// Sorted, so that when two properties give one role the choice does
+	// not depend on map order.
+	for _, k := range slices.Sorted(maps.Keys(ft.Properties)) {
+		v := ft.Properties[k]
 		key, _ := normaliseHeader(k)
 		s := propString(v)
 		switch {
