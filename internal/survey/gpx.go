@@ -26,6 +26,10 @@ type gpxPoint struct {
 	} `xml:"extensions"`
 }
 
+// gpxBytesPerPoint is a typical size of one GPX point element, to estimate
+// reading progress from the file size.
+const gpxBytesPerPoint = 200
+
 // readGPX reads the waypoints, route points and track points of a GPX 1.0
 // or 1.1 file. <ele> is in metres (GPX 1.1 schema, wptType); the code is
 // taken from <desc>, else <cmt>, else <sym>; accuracy in metres from
@@ -100,7 +104,7 @@ func readGPX(path string, data []byte, opt *Options, prog *progress) (*rawFile, 
 			dop = true
 		}
 		f.pts = append(f.pts, p)
-		prog.step(len(f.pts), len(data)/200+1)
+		prog.step(len(f.pts), len(data)/gpxBytesPerPoint+1)
 	}
 	if !rootSeen {
 		return nil, perr(path, 0, "", ErrEmpty, "XML document has no elements")

@@ -12,13 +12,14 @@ type progress struct {
 // progressEvery is how many items pass between reports.
 const progressEvery = 1 << 14
 
-// step reports that item i of n is being read; it reports only every
-// progressEvery items. A nil progress does nothing.
+// step reports that item i of about n is being read (n may be an
+// estimate, so i is capped at n); it reports only every progressEvery
+// items. A nil progress does nothing.
 func (p *progress) step(i, n int) {
-	if p == nil || p.fn == nil || i%progressEvery != 0 || n == 0 {
+	if p == nil || p.fn == nil || i%progressEvery != 0 || n <= 0 {
 		return
 	}
-	p.fn(p.base+p.size*int64(i)/int64(n), p.total)
+	p.fn(p.base+p.size*int64(min(i, n))/int64(n), p.total)
 }
 
 // done reports that the current file is finished and moves on.
