@@ -8,14 +8,16 @@ import (
 	"github.com/dugout-estimating/dugout/internal/robust"
 )
 
-// Constrained edges are inserted one segment at a time. The triangles the
-// segment crosses are removed and the two polygons left on either side of it
-// are retriangulated by their constrained Delaunay triangulations (M. V.
-// Anglada, "An improved incremental algorithm for constructing restricted
-// Delaunay triangulations", Computers & Graphics 21(2), 1997; the same
-// cavity method as Shewchuk's lecture notes, §3.8). The result is the
-// constrained Delaunay triangulation: every unconstrained edge is locally
-// Delaunay.
+// Constrained edges are inserted one segment at a time, after S. W. Sloan,
+// "A fast algorithm for generating constrained Delaunay triangulations",
+// Computers & Structures 47(3), 1993: the edges the segment crosses are
+// collected by walking along it; each is flipped when its quadrilateral is
+// strictly convex (otherwise it waits for its neighbours), until none
+// crosses; then Lawson flips over the touched triangles restore the
+// constrained Delaunay property (every unconstrained edge locally Delaunay).
+// Flipping keeps the triangulation valid at every step, so configurations
+// such as a vertex enclosed by the crossed triangles without lying on the
+// segment need no special case.
 //
 // A segment that passes exactly through a vertex is split there. A segment
 // that properly crosses an already constrained edge is split at the
@@ -179,19 +181,16 @@ func (c *constrainer) insert(s segment) error {
 		}
 	}
 
-	// Walk along a→z collecting the crossed triangles and the vertices to
-	// the left (L) and right (R) of the segment. The crossed half-edge h
-	// always runs from a right vertex to a left one.
+	// Walk along a→z collecting the crossed edges. The crossed half-edge h
+	// always runs from a vertex right of a→z to one left of it.
 	cav := []int32{e / 3}
-	var left, right []int32
 	h := next(e)
-	ru, lw := b.tri[h], b.tri[next(h)]
-	left = append(left, lw)
-	right = append(right, ru)
+	var crossed []int32
 	for {
 		if b.flags[h]&flagConstrained != 0 {
 			return c.cross(s, h)
 		}
+		crossed = append(crossed, h)
 		g := b.adj[h]
 		cav = append(cav, g/3)
 		v := b.tri[prev(g)]
@@ -203,20 +202,95 @@ func (c *constrainer) insert(s segment) error {
 		}
 		switch robust.Orient2D(pa, pz, b.xy(v)) {
 		case robust.Positive:
-			left = append(left, v)
-			h = next(g) // ru→v
-			lw = v
+			h = next(g) // right end → v
 		case robust.Negative:
-			right = append(right, v)
-			h = prev(g) // v→lw
-			ru = v
+			h = prev(g) // v → left end
 		default:
 			c.splits++
 			c.push(segment{a, v, s.kind, s.line}, segment{v, z, s.kind, s.line})
 			return nil
 		}
 	}
-	return c.retriangulate(s, cav, left, right)
+	return c.flipOut(s, crossed, cav)
+}
+
+// flipOut removes the crossed edges by Sloan's flips, marks the segment and
+// restores the Delaunay property around it. Flips reuse the two triangle
+// slots of the flipped edge, so all work stays in the slots cav.
+func (c *constrainer) flipOut(s segment, crossed, cav []int32) error {
+	b := c.b
+	pa, pz := b.xy(s.a), b.xy(s.b)
+	// The queue holds crossed half-edges; a flip moves the quadrilateral's
+	// outer edges between its four outer slots, so queued entries that sit
+	// in those slots are remapped (at tracks each queued half-edge's
+	// position in the queue).
+	queue := crossed
+	at := make(map[int32]int, len(queue))
+	for i, h := range queue {
+		at[h] = i
+	}
+	head := 0
+	limit := 16*len(crossed)*len(crossed) + 1024
+	for head < len(queue) {
+		if limit--; limit < 0 {
+			return fmt.Errorf("%w: segment %d–%d: flips do not clear the crossings", ErrConstraint, s.a, s.b)
+		}
+		e := queue[head]
+		delete(at, e)
+		head++
+		f := b.adj[e]
+		e1, e2, f1, f2 := next(e), prev(e), next(f), prev(f)
+		p, x := b.tri[e2], b.tri[f2]
+		ea, eb := b.tri[e], b.tri[e1]
+		convex := robust.Orient2D(b.xy(x), b.xy(p), b.xy(ea)) > 0 && robust.Orient2D(b.xy(p), b.xy(x), b.xy(eb)) > 0
+		if !convex {
+			at[e] = len(queue)
+			queue = append(queue, e)
+			continue
+		}
+		// Contents move: e1→f2, e2→e1, f1→e2, f2→f1 (see flip).
+		moved := [4][2]int32{{e1, f2}, {e2, e1}, {f1, e2}, {f2, f1}}
+		var pos [4]int
+		var had [4]bool
+		for k, mv := range moved {
+			pos[k], had[k] = at[mv[0]]
+			delete(at, mv[0])
+		}
+		b.flip(e, f)
+		for k, mv := range moved {
+			if had[k] {
+				queue[pos[k]] = mv[1]
+				at[mv[1]] = pos[k]
+			}
+		}
+		// The new diagonal x→p is slot e; it still crosses when its ends
+		// lie strictly on opposite sides of the segment's line.
+		if p != s.a && p != s.b && x != s.a && x != s.b &&
+			robust.Orient2D(pa, pz, b.xy(p))*robust.Orient2D(pa, pz, b.xy(x)) < 0 {
+			at[e] = len(queue)
+			queue = append(queue, e)
+		}
+	}
+	// Mark the segment, then Lawson flips over the touched triangles.
+	ab := int32(-1)
+	for _, t := range cav {
+		for k := range int32(3) {
+			h := 3*t + k
+			if b.tri[h] == s.a && b.tri[next(h)] == s.b {
+				ab = h
+			}
+		}
+	}
+	if ab < 0 {
+		return fmt.Errorf("%w: segment %d–%d missing after flips", ErrConstraint, s.a, s.b)
+	}
+	c.mark(ab, s)
+	for _, t := range cav {
+		b.stack = append(b.stack, 3*t, 3*t+1, 3*t+2)
+	}
+	b.legalizeEdges()
+	b.last = ab / 3
+	return nil
 }
 
 // cross handles segment s properly crossing the constrained edge of
@@ -304,113 +378,4 @@ func (c *constrainer) warn(w Warning) {
 	if c.warnCount <= maxWarningsPerKind {
 		c.warnings = append(c.warnings, w)
 	}
-}
-
-// outer is a half-edge outside the cavity, keyed by its ends (start, end).
-type outer struct {
-	from, to int32
-	e        int32
-}
-
-// retriangulate replaces the cavity triangles cav by the constrained
-// Delaunay triangulations of the polygons left and right of segment s.
-func (c *constrainer) retriangulate(s segment, cav, left, right []int32) error {
-	b := c.b
-	inCav := make(map[int32]bool, len(cav))
-	for _, t := range cav {
-		inCav[t] = true
-	}
-	var outs []outer
-	for _, t := range cav {
-		for k := range int32(3) {
-			f := b.adj[3*t+k]
-			if !inCav[f/3] {
-				outs = append(outs, outer{b.tri[f], b.tri[next(f)], f})
-			}
-		}
-	}
-	slots := append([]int32(nil), cav...)
-	lchain := make([]int32, 0, len(left)+2)
-	lchain = append(lchain, s.a)
-	lchain = append(lchain, left...)
-	lchain = append(lchain, s.b)
-	rchain := make([]int32, 0, len(right)+2)
-	rchain = append(rchain, s.b)
-	for i := len(right) - 1; i >= 0; i-- {
-		rchain = append(rchain, right[i])
-	}
-	rchain = append(rchain, s.a)
-	p := polyTriangulator{b: b, slots: slots, outs: outs}
-	hl := p.run(lchain)
-	hr := p.run(rchain)
-	if p.broken || len(p.slots) != 0 || len(p.outs) != 0 {
-		// Unreachable for a valid triangulation: the walk recorded every
-		// boundary edge and the polygons use exactly the cavity's slots.
-		return fmt.Errorf("%w: cavity of segment %d–%d is inconsistent", ErrConstraint, s.a, s.b)
-	}
-	b.link(hl, hr)
-	b.flags[hl], b.flags[hr] = 0, 0
-	c.mark(hl, s)
-	b.last = hl / 3
-	return nil
-}
-
-// polyTriangulator triangulates cavity polygons into reused triangle slots.
-type polyTriangulator struct {
-	b      *builder
-	slots  []int32
-	outs   []outer
-	broken bool // a slot or boundary edge was missing
-}
-
-// run triangulates the polygon whose vertices chain[1:len-1] lie strictly
-// to the left of the base edge chain[0]→chain[len-1], choosing for each base
-// edge the vertex whose circle through the base contains no other chain
-// vertex (Anglada 1997), and returns the half-edge chain[0]→chain[len-1] of
-// the triangle on the base.
-func (p *polyTriangulator) run(chain []int32) int32 {
-	b := p.b
-	last := len(chain) - 1
-	va, vb := chain[0], chain[last]
-	ci := 1
-	pa, pb := b.xy(va), b.xy(vb)
-	for i := 2; i < last; i++ {
-		if robust.InCircle(pa, pb, b.xy(chain[ci]), b.xy(chain[i])) > 0 {
-			ci = i
-		}
-	}
-	vc := chain[ci]
-	if len(p.slots) == 0 {
-		p.broken = true
-		return 0
-	}
-	t := p.slots[len(p.slots)-1]
-	p.slots = p.slots[:len(p.slots)-1]
-	h0, h1, h2 := 3*t, 3*t+1, 3*t+2
-	b.tri[h0], b.tri[h1], b.tri[h2] = va, vb, vc
-	b.flags[h0], b.flags[h1], b.flags[h2] = 0, 0, 0
-	p.attach(h1, chain[ci:])   // edge vb→vc: polygon beyond it has base vc→vb
-	p.attach(h2, chain[:ci+1]) // edge vc→va: polygon beyond it has base va→vc
-	return h0
-}
-
-// attach links half-edge h of a new triangle to the polygon sub beyond it:
-// the outer half-edge sub[0]→sub[1] when sub is a single edge, else the base
-// of sub's own triangulation.
-func (p *polyTriangulator) attach(h int32, sub []int32) {
-	b := p.b
-	if len(sub) > 2 {
-		b.link(h, p.run(sub))
-		return
-	}
-	for i, o := range p.outs {
-		if o.from == sub[0] && o.to == sub[1] {
-			b.link(h, o.e)
-			b.flags[h] = b.flags[o.e]
-			p.outs[i] = p.outs[len(p.outs)-1]
-			p.outs = p.outs[:len(p.outs)-1]
-			return
-		}
-	}
-	p.broken = true
 }

@@ -358,6 +358,37 @@ func (b *builder) legalize() {
 	}
 }
 
+// legalizeEdges empties the edge stack with Lawson's flip rule for
+// arbitrary edges (not tied to a new vertex): an unconstrained edge is
+// flipped when the apex across it lies strictly inside its triangle's
+// circumcircle (or beyond a ghost's hull edge), and the four outer edges of
+// the flipped quadrilateral are queued. Queued entries whose edge a flip has
+// moved to another slot may then name a different edge; that is harmless,
+// because every moved edge is queued again at its new slot. Lawson's
+// algorithm terminates for any starting triangulation.
+func (b *builder) legalizeEdges() {
+	for len(b.stack) > 0 {
+		e := b.stack[len(b.stack)-1]
+		b.stack = b.stack[:len(b.stack)-1]
+		if b.flags != nil && b.flags[e]&flagConstrained != 0 {
+			continue
+		}
+		f := b.adj[e]
+		te, tf := e/3, f/3
+		var bad bool
+		if b.isGhost(te) {
+			bad = b.tri[prev(f)] >= 0 && b.conflict(te, b.xy(b.tri[prev(f)]))
+		} else {
+			bad = b.tri[prev(e)] >= 0 && b.conflict(tf, b.xy(b.tri[prev(e)]))
+		}
+		if !bad {
+			continue
+		}
+		b.flip(e, f)
+		b.stack = append(b.stack, next(e), prev(e), next(f), prev(f))
+	}
+}
+
 // conflict reports whether p lies strictly inside the circumcircle of
 // triangle t, or, for a ghost triangle, strictly beyond its hull edge.
 func (b *builder) conflict(t int32, p geom.Vec2) bool {

@@ -40,6 +40,33 @@ func ratInCircle(a, b, c, d geom.Vec3) int {
 	return det.Sign()
 }
 
+// filteredInCircle is ratInCircle with a floating-point shortcut: the
+// float determinant is trusted when it exceeds 1e-10 of its permanent (a
+// margin a million times the rounding error bound), else big.Rat decides.
+// The same scheme as ref_delaunay.py's validator.
+func filteredInCircle(a, b, c, d geom.Vec3) int {
+	adx, ady := a.X-d.X, a.Y-d.Y
+	bdx, bdy := b.X-d.X, b.Y-d.Y
+	cdx, cdy := c.X-d.X, c.Y-d.Y
+	al, bl, cl := adx*adx+ady*ady, bdx*bdx+bdy*bdy, cdx*cdx+cdy*cdy
+	det := al*(bdx*cdy-bdy*cdx) + bl*(cdx*ady-cdy*adx) + cl*(adx*bdy-ady*bdx)
+	perm := al*(abs(bdx*cdy)+abs(bdy*cdx)) + bl*(abs(cdx*ady)+abs(cdy*adx)) + cl*(abs(adx*bdy)+abs(ady*bdx))
+	switch {
+	case det > 1e-10*perm:
+		return 1
+	case det < -1e-10*perm:
+		return -1
+	}
+	return ratInCircle(a, b, c, d)
+}
+
+func abs(x float64) float64 {
+	if x < 0 {
+		return -x
+	}
+	return x
+}
+
 // exactCheck verifies with big.Rat that every mesh triangle of s is
 // counter-clockwise and that every interior unconstrained edge of the mesh
 // is locally Delaunay (the empty-circle test of check-values.md §6, exactly;
