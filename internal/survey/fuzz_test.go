@@ -67,6 +67,10 @@ func TestFuzzRegressions(t *testing.T) {
 		{"geometry collection nesting", "f.geojson", `{"type":"GeometryCollection","geometries":[{"type":"GeometryCollection","geometries":[]}]}`},
 		{"empty point", "f.geojson", `{"type":"Point","coordinates":[]}`},
 		{"null features", "f.geojson", `{"type":"FeatureCollection","features":null}`},
+		// FuzzReadGeoJSON: a LineString without coordinates has no layout
+		// in go-geom, whose Coords then divided by a zero stride.
+		{"line without coordinates", "f.geojson", `{"type":"FeatureCollection","features":[{"tYpe":"Feature","geometrY":{"tYpe":"LineString"}}]}`},
+		{"bare line without coordinates", "f.geojson", `{"type":"MultiPolygon"}`},
 		// Found by reading the code for overflow: the centre of these
 		// bounds was +Inf, and every local position -Inf.
 		{"coordinates near the float limit", "f.csv", "id,n,e,z\n1,1e308,1e308,1\n2,1.5e308,1.7e308,2\n"},

@@ -379,6 +379,12 @@ func addGeometry(f *rawFile, g gg.T, line, num int, id, name string, props gjPro
 		}
 		return base + "-" + strconv.Itoa(i+1), true
 	}
+	if _, coll := g.(*gg.GeometryCollection); g != nil && !coll && g.Stride() == 0 {
+		// A geometry without "coordinates" decodes with no layout, and
+		// go-geom cannot even list its (no) coordinates.
+		f.warn(line, "feature %d has a geometry without coordinates: skipped", num)
+		return nil
+	}
 	switch t := g.(type) {
 	case nil:
 		f.warn(line, "feature %d has no geometry: skipped", num)
