@@ -81,6 +81,12 @@ type Result struct {
 // below anything a truck body can be filled to.
 const loadRoundingTol = 1e-9
 
+// SpreadOnSiteFraction is the part of a truckload below which a left-over
+// haul-off is spread on site rather than trucked: 5 % of a 10 yd³ body is
+// half a cubic yard, a few wheelbarrow loads (common practice, no source).
+// A balanced job leaves such crumbs from the balance search alone.
+const SpreadOnSiteFraction = 0.05
+
 // Compute runs the earthwork account for in. It returns an [*InputError]
 // wrapping [ErrNegative], [ErrNotPositive], [ErrNonFinite] or
 // [ErrHeapBelowStruck] for a negative or non-finite volume, area, depth or
@@ -130,6 +136,10 @@ func Compute(in Inputs) (Result, error) {
 		if r.HaulLooseM3 > 0 {
 			r.Notes = append(r.Notes, "no truck given: truckloads are not counted")
 		}
+	case r.HaulLooseM3 > 0 && r.HaulLooseM3 < SpreadOnSiteFraction*r.TruckCapacityM3:
+		r.Notes = append(r.Notes, fmt.Sprintf(
+			"the %.2f m³ loose left over is under %.0f %% of a load: spread it on site, no truck counted",
+			r.HaulLooseM3, 100*SpreadOnSiteFraction))
 	case r.HaulLooseM3 > 0:
 		loads := r.HaulLooseM3 / r.TruckCapacityM3
 		r.Truckloads = int(math.Ceil(loads * (1 - loadRoundingTol)))

@@ -186,7 +186,8 @@ func TestCompute_BadInput(t *testing.T) {
 // TestCompute_Balances checks, over random inputs, the identities the
 // account rests on: reused + haul = cut, reused + import = need, haul and
 // import are never both positive when cut is reused, and the loads carry the
-// haul with less than one load to spare.
+// haul with less than one load to spare (or none when the haul is under
+// SpreadOnSiteFraction of a load).
 func TestCompute_Balances(t *testing.T) {
 	rapid.Check(t, func(t *rapid.T) {
 		in := Inputs{
@@ -217,6 +218,12 @@ func TestCompute_Balances(t *testing.T) {
 			t.Fatalf("negative haul %g or import %g", r.HaulBankM3, r.ImportBankM3)
 		}
 		c := r.TruckCapacityM3
+		if r.HaulLooseM3 < SpreadOnSiteFraction*c {
+			if r.Truckloads != 0 {
+				t.Fatalf("%d loads for %g loose, under %g of a %g load", r.Truckloads, r.HaulLooseM3, SpreadOnSiteFraction, c)
+			}
+			return
+		}
 		if float64(r.Truckloads)*c < r.HaulLooseM3*(1-1e-9) || float64(r.Truckloads-1)*c >= r.HaulLooseM3 && r.Truckloads > 0 {
 			t.Fatalf("%d loads of %g for %g loose", r.Truckloads, c, r.HaulLooseM3)
 		}
