@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"path/filepath"
 	"strings"
 
 	"golang.org/x/term"
@@ -120,4 +121,12 @@ func isCobraUsageError(err error) bool {
 		}
 	}
 	return false
+}
+
+// absFrom returns p unchanged when absolute, else joined to dir.
+func absFrom(dir, p string) string {
+	if filepath.IsAbs(p) || p == "-" {
+		return p
+	}
+	return filepath.Join(dir, p)
 }

@@ -48,6 +48,8 @@ func newRootCmd(app *App) *cobra.Command {
 	pf.BoolVar(&app.JSON, "json", false, "print one JSON document on stdout instead of text")
 
 	root.AddCommand(
+		newPointsCmd(app),
+		newEstimateCmd(app),
 		newVersionCmd(app),
 		newExitCodesTopic(),
 	)

@@ -1,0 +1,217 @@
+package estimate
+
+import (
+	"context"
+	"fmt"
+	"os"
+	"time"
+
+	"github.com/dugout-estimating/dugout/internal/cutfill"
+	"github.com/dugout-estimating/dugout/internal/design"
+	"github.com/dugout-estimating/dugout/internal/geom"
+	"github.com/dugout-estimating/dugout/internal/survey"
+	"github.com/dugout-estimating/dugout/internal/tin"
+)
+
+// Result is one estimate: every step's output, in SI units and the local
+// frame of Survey.Frame.
+type Result struct {
+	Job       *Job
+	Survey    *survey.Set
+	Terrain   *tin.Surface
+	Zones     []design.Zone
+	Design    *design.Surface
+	Earthwork cutfill.Result
+	// Warnings collects the non-fatal findings of every step, each
+	// prefixed with the step.
+	Warnings []string
+	// Timings records how long each step took, for --verbose output and
+	// benchmarks.
+	Timings []Timing
+}
+
+// Timing is the wall time of one step.
+type Timing struct {
+	Step    string
+	Seconds float64
+}
+
+// Run carries out the job. It checks ctx between steps.
+func Run(ctx context.Context, j *Job) (*Result, error) {
+	r := &Result{Job: j}
+	step := func(name string, fn func() error) error {
+		if err := ctx.Err(); err != nil {
+			return err
+		}
+		t0 := time.Now()
+		err := fn()
+		r.Timings = append(r.Timings, Timing{name, time.Since(t0).Seconds()})
+		return err
+	}
+	if err := step("survey", func() error { return r.readSurvey() }); err != nil {
+		return nil, err
+	}
+	if err := step("surface", func() error { return r.buildTerrain() }); err != nil {
+		return nil, err
+	}
+	if err := step("zones", func() error { return r.makeZones() }); err != nil {
+		return nil, err
+	}
+	if err := step("design", func() error { return r.buildDesign() }); err != nil {
+		return nil, err
+	}
+	if err := step("earthwork", func() error { return r.account() }); err != nil {
+		return nil, err
+	}
+	return r, nil
+}
+
+// readSurvey reads the survey files together with the boundary, breakline
+// and outline files, so that all of them share one local frame.
+func (r *Result) readSurvey() error {
+	j := r.Job
+	paths := append([]string(nil), j.SurveyFiles...)
+	extra := map[string]bool{}
+	for _, p := range append(append([]string{j.BoundaryFile, j.OutlineFile}), j.BreaklineFile...) {
+		if p != "" && !extra[p] {
+			extra[p] = true
+			paths = append(paths, p)
+		}
+	}
+	set, err := survey.Read(paths, j.Survey)
+	if err != nil {
+		return err
+	}
+	r.Survey = set
+	for _, w := range set.Warnings {
+		r.Warnings = append(r.Warnings, "survey: "+w.String())
+	}
+	return nil
+}
+
+func (r *Result) buildTerrain() error {
+	j, set := r.Job, r.Survey
+	opt := j.TIN
+	for _, l := range set.Breaklines {
+		name := l.Name
+		if name == "" {
+			name = fmt.Sprintf("%s line %d", l.File, l.Line)
+		}
+		opt.Breaklines = append(opt.Breaklines, tin.Breakline{Name: name, Pts: l.Pts})
+	}
+	for _, p := range set.Boundaries {
+		if j.OutlineFile != "" && p.File == j.OutlineFile {
+			continue // the pond outline, not a survey boundary
+		}
+		opt.Boundary = append(opt.Boundary, p.Ring)
+	}
+	pts := make([]geom.Vec3, 0, len(set.Points))
+	for _, p := range set.Points {
+		if p.HasZ() {
+			pts = append(pts, p.P)
+		}
+	}
+	s, err := tin.Build(pts, opt)
+	if err != nil {
+		return fmt.Errorf("surface: %w", err)
+	}
+	r.Terrain = s
+	for _, w := range s.Warnings() {
+		r.Warnings = append(r.Warnings, "surface: "+w.Msg)
+	}
+	return nil
+}
+
+func (r *Result) makeZones() error {
+	j, set := r.Job, r.Survey
+	switch {
+	case j.ZonesFile != "":
+		f, err := os.Open(j.ZonesFile)
+		if err != nil {
+			return err
+		}
+		defer f.Close()
+		zs, err := design.ReadZonesGeoJSON(f, j.ZonesFile, r.fileToLocal, j.Units)
+		if err != nil {
+			return err
+		}
+		r.Zones = zs
+		return nil
+	case j.OutlineCode != "":
+		pts := set.CodedString(j.OutlineCode)
+		if len(pts) < 3 {
+			return fmt.Errorf("%w: design.outline.code %q: %d survey points carry it, need at least 3 to make an outline", ErrJob, j.OutlineCode, len(pts))
+		}
+		ring := make(geom.Ring, len(pts))
+		for i, p := range pts {
+			ring[i] = p.P.XY()
+		}
+		j.Outline.Ring = ring
+	case j.OutlineFile != "":
+		var rings []geom.Ring
+		for _, p := range set.Boundaries {
+			if p.File == j.OutlineFile {
+				rings = append(rings, p.Ring)
+			}
+		}
+		if len(rings) != 1 {
+			return fmt.Errorf("%w: design.outline.file %s: want exactly one polygon, found %d", ErrJob, j.OutlineFile, len(rings))
+		}
+		j.Outline.Ring = rings[0]
+	}
+	zs, err := j.Outline.Zones()
+	if err != nil {
+		return err
+	}
+	r.Zones = zs
+	return nil
+}
+
+// fileToLocal converts coordinates from a zones file to the local frame:
+// lon/lat (RFC 7946) when the survey itself was lon/lat, else the survey's
+// own projected coordinates in its units.
+func (r *Result) fileToLocal(x, y float64) (geom.Vec2, error) {
+	set := r.Survey
+	if set.Geographic && set.CRS.UTM != nil {
+		e, n, err := set.CRS.UTM.Forward(x, y)
+		if err != nil {
+			return geom.Vec2{}, err
+		}
+		return set.Frame.ToLocal(geom.Vec2{X: e, Y: n}), nil
+	}
+	f := r.Job.Units.Metres()
+	return set.Frame.ToLocal(geom.Vec2{X: x * f, Y: y * f}), nil
+}
+
+func (r *Result) buildDesign() error {
+	p := r.Job.Design
+	p.Zones = r.Zones
+	s, err := design.Build(r.Terrain, p)
+	if err != nil {
+		return err
+	}
+	r.Design = s
+	for _, w := range s.Warnings {
+		r.Warnings = append(r.Warnings, "design: "+w)
+	}
+	return nil
+}
+
+func (r *Result) account() error {
+	j, d := r.Job, r.Design
+	res, err := cutfill.Compute(cutfill.Inputs{
+		CutBankM3:       d.CutM3,
+		FillCompactedM3: d.FillM3,
+		Soil:            j.Soil,
+		TopsoilDepthM:   j.TopsoilDepthM,
+		TopsoilAreaM2:   d.DisturbedAreaM2,
+		Truck:           j.Truck,
+		Heaped:          j.Heaped,
+		ReuseCut:        j.ReuseCut,
+	})
+	if err != nil {
+		return fmt.Errorf("earthwork: %w", err)
+	}
+	r.Earthwork = res
+	return nil
+}
