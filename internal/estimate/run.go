@@ -72,7 +72,7 @@ func (r *Result) readSurvey() error {
 	j := r.Job
 	paths := append([]string(nil), j.SurveyFiles...)
 	extra := map[string]bool{}
-	for _, p := range append(append([]string{j.BoundaryFile, j.OutlineFile}), j.BreaklineFile...) {
+	for _, p := range append([]string{j.BoundaryFile, j.OutlineFile}, j.BreaklineFile...) {
 		if p != "" && !extra[p] {
 			extra[p] = true
 			paths = append(paths, p)
