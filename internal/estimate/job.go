@@ -11,6 +11,7 @@ import (
 	"github.com/dugout-estimating/dugout/internal/las"
 	"github.com/dugout-estimating/dugout/internal/sitefile"
 	"github.com/dugout-estimating/dugout/internal/survey"
+	"github.com/dugout-estimating/dugout/internal/takeoff"
 	"github.com/dugout-estimating/dugout/internal/tin"
 	"github.com/dugout-estimating/dugout/internal/units"
 )
@@ -57,6 +58,9 @@ type Job struct {
 	Heaped        bool
 	ReuseCut      bool
 	TopsoilDepthM float64
+
+	Takeoff        takeoff.Options
+	DischargePoint string // survey point id whose elevation is the pump's discharge
 
 	Assumed []string // defaults that were applied, for the report
 }
@@ -254,7 +258,158 @@ func FromSite(s *sitefile.Site) (*Job, error) {
 	if j.TopsoilDepthM, err = length(s.Earthwork.TopsoilDepth, "earthwork.topsoil_depth", 0, ""); err != nil {
 		return nil, err
 	}
+	if err := j.takeoffFromSite(s, length); err != nil {
+		return nil, err
+	}
 	return j, nil
+}
+
+// takeoffFromSite maps the liner, stone, gravel, crew, pump and price
+// sections onto the takeoff's options.
+func (j *Job) takeoffFromSite(s *sitefile.Site, length func(sitefile.Length, string, float64, string) (float64, error)) error {
+	o := &j.Takeoff
+	var err error
+	if o.Soil, err = takeoff.ParseSoilType(s.Earthwork.SoilType); err != nil {
+		return fmt.Errorf("%w: earthwork.soil_type: %w", ErrJob, err)
+	}
+	if s.Earthwork.SoilType == "" {
+		j.Assumed = append(j.Assumed, "earthwork.soil_type = unclassified (treated as OSHA Type C for the slope check)")
+	}
+
+	// Liner.
+	o.Liner.Metric = j.OutUnits == units.Metres
+	if s.Liner.Overlap.IsSet() {
+		v, err := length(s.Liner.Overlap, "liner.overlap", 0, "")
+		if err != nil {
+			return err
+		}
+		o.Liner.OverlapM = &v
+	} else {
+		j.Assumed = append(j.Assumed, "liner.overlap = 1 ft")
+	}
+	if s.Liner.Material != "" {
+		if o.Liner.Material, err = takeoff.LinerMaterialByName(s.Liner.Material); err != nil {
+			return fmt.Errorf("%w: liner.material: %w", ErrJob, err)
+		}
+	}
+	for _, w := range s.Liner.StockWidths {
+		v, err := length(w, "liner.stock_widths", 0, "")
+		if err != nil {
+			return err
+		}
+		o.Liner.Stock.WidthsM = append(o.Liner.Stock.WidthsM, v)
+	}
+	for _, w := range s.Liner.StockLengths {
+		v, err := length(w, "liner.stock_lengths", 0, "")
+		if err != nil {
+			return err
+		}
+		o.Liner.Stock.LengthsM = append(o.Liner.Stock.LengthsM, v)
+	}
+	switch u := strings.TrimSpace(s.Liner.Underlayment); {
+	case strings.EqualFold(u, "none"):
+		o.Liner.NoUnderlayment = true
+	case u != "":
+		if o.Liner.Underlayment, err = takeoff.UnderlaymentByName(u); err != nil {
+			return fmt.Errorf("%w: liner.underlayment: %w", ErrJob, err)
+		}
+	}
+
+	// Edge stone (ordered when any stone key is given).
+	st := s.Stone
+	if st.Rock != "" || st.FaceHeight.IsSet() || st.Thickness.IsSet() || st.Density != 0 {
+		es := &takeoff.EdgeStoneOptions{Rock: st.Rock, DensityKgM3: st.Density}
+		if es.FaceHeightM, err = length(st.FaceHeight, "stone.face_height", 0.2032, "8 in"); err != nil {
+			return err
+		}
+		if es.ThicknessM, err = length(st.Thickness, "stone.thickness", 0.3048, "12 in"); err != nil {
+			return err
+		}
+		if es.BoulderPercent, es.BoulderKg, err = takeoff.ParseBoulderAllowance(st.Boulders); err != nil {
+			return fmt.Errorf("%w: stone.boulders: %w", ErrJob, err)
+		}
+		for k, sr := range st.Stretches {
+			from, err := length(sr.From, fmt.Sprintf("stone.stretch[%d].from", k+1), 0, "")
+			if err != nil {
+				return err
+			}
+			to, err := length(sr.To, fmt.Sprintf("stone.stretch[%d].to", k+1), 0, "")
+			if err != nil {
+				return err
+			}
+			es.Stretches = append(es.Stretches, takeoff.Stretch{Loop: sr.Loop, FromM: from, ToM: to})
+		}
+		o.EdgeStone = es
+	}
+
+	// Gravel (ordered when a thickness or material is given).
+	if g := s.Gravel; g.Thickness.IsSet() || g.Material != "" {
+		t, err := length(g.Thickness, "gravel.thickness", 2*units.Inch, "2 in")
+		if err != nil {
+			return err
+		}
+		o.Gravel = []takeoff.GravelOptions{{Material: g.Material, ThicknessM: t, Walls: g.Walls}}
+	}
+
+	// Crew.
+	o.Crew = takeoff.CrewOptions{Size: s.Crew.Size, TonsPerWorkerHour: s.Crew.TonsPerHour,
+		MachineTonsPerHour: s.Crew.MachineTonsPer, HoursPerDay: s.Crew.HoursPerDay}
+
+	// Water and pump.
+	p := s.Pump
+	w := &o.Water
+	w.TurnoverH = p.TurnoverHours
+	switch {
+	case p.SupplyGPM > 0 && p.SupplyLPM > 0:
+		return fmt.Errorf("%w: pump: give supply_gpm or supply_lpm, not both", ErrJob)
+	case p.SupplyGPM > 0:
+		w.SupplyM3PerH = p.SupplyGPM * units.GallonPerMinute * 3600
+	case p.SupplyLPM > 0:
+		w.SupplyM3PerH = p.SupplyLPM * units.LitrePerMinute * 3600
+	case p.SupplyGPM < 0 || p.SupplyLPM < 0:
+		return fmt.Errorf("%w: pump: a supply rate must be > 0", ErrJob)
+	}
+	if p.DischargeHeight.IsSet() && p.DischargePoint != "" {
+		return fmt.Errorf("%w: pump: give discharge_height or discharge_point, not both", ErrJob)
+	}
+	if w.DischargeHeightM, err = length(p.DischargeHeight, "pump.discharge_height", 0, ""); err != nil {
+		return err
+	}
+	j.DischargePoint = p.DischargePoint
+	if w.PipeLengthM, err = length(p.PipeLength, "pump.pipe_length", 0, ""); err != nil {
+		return err
+	}
+	if w.PipeDiameterM, err = length(p.PipeDiameter, "pump.pipe_diameter", 0, ""); err != nil {
+		return err
+	}
+	w.Pipe = p.PipeMaterial
+	if w.FittingsLengthM, err = length(p.FittingsLength, "pump.fittings_length", 0, ""); err != nil {
+		return err
+	}
+	if w.SpillwayWidthM, err = length(p.SpillwayWidth, "pump.spillway_width", 0, ""); err != nil {
+		return err
+	}
+	if w.Sheet, err = takeoff.ParseSheetFlow(p.SpillwayFlow); err != nil {
+		return fmt.Errorf("%w: pump.spillway_flow: %w", ErrJob, err)
+	}
+
+	// Prices.
+	pr := s.Prices
+	priced := pr.PerCubicYardDug != 0 || pr.PerCubicMetreDug != 0 || pr.PerTruckload != 0 || pr.PerSquareFtLiner != 0 ||
+		pr.PerSquareMLiner != 0 || pr.PerSquareFtUnder != 0 || pr.PerSquareMUnder != 0 || pr.PerTonStone != 0 ||
+		pr.PerTonGravel != 0 || pr.PerCrewHour != 0 || len(pr.Fixed) > 0
+	if priced {
+		pl := &takeoff.PriceList{Currency: pr.Currency,
+			PerCubicYardDug: pr.PerCubicYardDug, PerCubicMetreDug: pr.PerCubicMetreDug, PerTruckload: pr.PerTruckload,
+			PerSquareFootLiner: pr.PerSquareFtLiner, PerSquareMetreLiner: pr.PerSquareMLiner,
+			PerSquareFootUnderlayment: pr.PerSquareFtUnder, PerSquareMetreUnderlayment: pr.PerSquareMUnder,
+			PerTonStone: pr.PerTonStone, PerTonGravel: pr.PerTonGravel, PerCrewHour: pr.PerCrewHour}
+		for _, it := range pr.Fixed {
+			pl.Fixed = append(pl.Fixed, takeoff.FixedItem{Name: it.Name, Amount: it.Amount})
+		}
+		o.Prices = pl
+	}
+	return nil
 }
 
 func parseSystem(s, key string) (units.System, error) {

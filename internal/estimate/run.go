@@ -10,6 +10,7 @@ import (
 	"github.com/dugout-estimating/dugout/internal/design"
 	"github.com/dugout-estimating/dugout/internal/geom"
 	"github.com/dugout-estimating/dugout/internal/survey"
+	"github.com/dugout-estimating/dugout/internal/takeoff"
 	"github.com/dugout-estimating/dugout/internal/tin"
 )
 
@@ -22,6 +23,7 @@ type Result struct {
 	Zones     []design.Zone
 	Design    *design.Surface
 	Earthwork cutfill.Result
+	Takeoff   takeoff.Result
 	// Warnings collects the non-fatal findings of every step, each
 	// prefixed with the step.
 	Warnings []string
@@ -61,6 +63,9 @@ func Run(ctx context.Context, j *Job) (*Result, error) {
 		return nil, err
 	}
 	if err := step("earthwork", func() error { return r.account() }); err != nil {
+		return nil, err
+	}
+	if err := step("takeoff", func() error { return r.takeoff() }); err != nil {
 		return nil, err
 	}
 	return r, nil
@@ -213,5 +218,38 @@ func (r *Result) account() error {
 		return fmt.Errorf("earthwork: %w", err)
 	}
 	r.Earthwork = res
+	return nil
+}
+
+func (r *Result) takeoff() error {
+	j := r.Job
+	in, err := takeoff.InputFromDesign(r.Design)
+	if err != nil {
+		return fmt.Errorf("takeoff: %w", err)
+	}
+	in.Truckloads = float64(r.Earthwork.Truckloads)
+	o := j.Takeoff
+	if j.DischargePoint != "" {
+		found := false
+		for _, p := range r.Survey.Points {
+			if p.ID == j.DischargePoint && p.HasZ() {
+				z := p.P.Z
+				o.Water.DischargeElevationM = &z
+				found = true
+				break
+			}
+		}
+		if !found {
+			return fmt.Errorf("%w: pump.discharge_point %q: no survey point with that id and an elevation", ErrJob, j.DischargePoint)
+		}
+	}
+	res, err := takeoff.Compute(in, o)
+	if err != nil {
+		return fmt.Errorf("takeoff: %w", err)
+	}
+	r.Takeoff = res
+	for _, w := range res.Warnings {
+		r.Warnings = append(r.Warnings, "takeoff: "+w)
+	}
 	return nil
 }
