@@ -15,6 +15,10 @@
 # written, and with GeoJSON for reference; a run with one level below the
 # data (-fl 0) gives its fixed cost. The Go figure is Trace alone on a mesh
 # already in memory. Runs alternate, REPEAT times each; medians are printed.
+# Wall-clock times suffer when other work shares the machine, so the CPU
+# time (user + system) of each is printed too: for gdal_contour that of the
+# process, for Trace the difference between a benchmark run of 1 and of
+# 1 + CPUOPS operations, divided by CPUOPS.
 #
 # Usage: scripts/bench_contours.sh            (REPEAT=5 BENCHTIME=5x)
 # Needs go, /usr/bin/python3 with numpy and osgeo, gdal_contour, ogrinfo.
@@ -23,6 +27,7 @@ ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 PY=/usr/bin/python3
 REPEAT="${REPEAT:-5}"
 BENCHTIME="${BENCHTIME:-5x}"
+CPUOPS="${CPUOPS:-10}"
 OUT="$(mktemp -d)"
 trap 'rm -rf "$OUT"' EXIT
 
@@ -52,10 +57,17 @@ elapsed() { awk -v a="$1" -v b="$2" 'BEGIN { printf "%.4f", b - a }'; }
 median() { printf '%s\n' "$@" | sort -g | awk '{ v[NR] = $1 } END { print (NR % 2) ? v[(NR + 1) / 2] : (v[NR / 2] + v[NR / 2 + 1]) / 2 }'; }
 
 go_s=() mem_s=() json_s=() fixed_s=()
+go_cpu=() mem_cpu=() fixed_cpu=()
 lines=""
+cpu() { # cpu OUTVAR DIR command...: run command in DIR, store its user+system seconds
+  local __v="$1" dir="$2"; shift 2
+  local t; t="$(cd "$dir" && /usr/bin/time -o "$OUT/time" -f '%U %S' "$@" >/dev/null 2>&1; cat "$OUT/time")"
+  printf -v "$__v" '%s' "$(awk '{ printf "%.4f", $1 + $2 }' <<<"$t")"
+}
+gobin=("$OUT/contours.test" -test.run '^$' -test.bench '^BenchmarkTrace1e6$' -test.count 1)
+gobench() { (cd "$ROOT/internal/contours" && "$OUT/contours.test" -test.run '^$' -test.bench '^BenchmarkTrace1e6$' -test.count 1 "$@"); }
 for ((r = 0; r < REPEAT; r++)); do
-  res="$(cd "$ROOT/internal/contours" && "$OUT/contours.test" -test.run '^$' -test.bench '^BenchmarkTrace1e6$' \
-    -test.benchtime "$BENCHTIME" -test.count 1 | awk '/^BenchmarkTrace1e6/ { print $3, $5 }')"
+  res="$(gobench -test.benchtime "$BENCHTIME" | awk '/^BenchmarkTrace1e6/ { print $3, $5 }')"
   go_s+=("$(awk -v ns="${res% *}" 'BEGIN { printf "%.4f", ns / 1e9 }')")
   lines="${res#* }"
 
@@ -68,6 +80,14 @@ for ((r = 0; r < REPEAT; r++)); do
 
   t0=$(now); gdal_contour -q -a elev -fl 0 -f Memory "$OUT/terrain.tif" mem >/dev/null; t1=$(now)
   fixed_s+=("$(elapsed "$t0" "$t1")")
+
+  cpu c1 "$ROOT/internal/contours" "${gobin[@]}" -test.benchtime 1x
+  cpu cn "$ROOT/internal/contours" "${gobin[@]}" -test.benchtime "$((CPUOPS + 1))x"
+  go_cpu+=("$(awk -v a="$c1" -v b="$cn" -v n="$CPUOPS" 'BEGIN { printf "%.4f", (b - a) / n }')")
+  cpu c "$OUT" gdal_contour -q -a elev -i "$INTERVAL" -f Memory "$OUT/terrain.tif" mem
+  mem_cpu+=("$c")
+  cpu c "$OUT" gdal_contour -q -a elev -fl 0 -f Memory "$OUT/terrain.tif" mem
+  fixed_cpu+=("$c")
 done
 
 gdal_lines="$(ogrinfo -ro -so -al "$OUT/c.geojson" | awk -F': ' '/Feature Count/ { print $2 }')"
@@ -82,6 +102,12 @@ printf '%-44s %8.4f   %s\n' "contours.Trace (BenchmarkTrace1e6)" "$go_m" "${go_s
 printf '%-44s %8.4f   %s\n' "gdal_contour -f Memory" "$mem_m" "${mem_s[*]}"
 printf '%-44s %8.4f   %s\n' "gdal_contour -f GeoJSON" "$json_m" "${json_s[*]}"
 printf '%-44s %8.4f   %s\n' "gdal_contour, no level (fixed cost)" "$fixed_m" "${fixed_s[*]}"
-awk -v g="$go_m" -v m="$mem_m" -v f="$fixed_m" -v j="$json_m" 'BEGIN {
-  printf "ratio gdal_contour / contours.Trace: %.2f (Memory), %.2f (Memory less fixed cost), %.2f (GeoJSON)\n", m / g, (m - f) / g, j / g
+gc_m="$(median "${go_cpu[@]}")" mc_m="$(median "${mem_cpu[@]}")" fc_m="$(median "${fixed_cpu[@]}")"
+printf '%-44s %8s   runs\n' "" "CPU s"
+printf '%-44s %8.4f   %s\n' "contours.Trace" "$gc_m" "${go_cpu[*]}"
+printf '%-44s %8.4f   %s\n' "gdal_contour -f Memory" "$mc_m" "${mem_cpu[*]}"
+printf '%-44s %8.4f   %s\n' "gdal_contour, no level (fixed cost)" "$fc_m" "${fixed_cpu[*]}"
+awk -v g="$go_m" -v m="$mem_m" -v f="$fixed_m" -v j="$json_m" -v gc="$gc_m" -v mc="$mc_m" -v fc="$fc_m" 'BEGIN {
+  printf "ratio gdal_contour / contours.Trace, wall: %.2f (Memory), %.2f (Memory less fixed cost), %.2f (GeoJSON)\n", m / g, (m - f) / g, j / g
+  printf "ratio gdal_contour / contours.Trace, CPU:  %.2f (Memory), %.2f (Memory less fixed cost)\n", mc / gc, (mc - fc) / gc
 }'

@@ -34,10 +34,10 @@
 // around hills are counter-clockwise and rings around pits clockwise (for a
 // mesh wound counter-clockwise in plan, as [geom.TriMesh] requires).
 //
-// Cost: [Trace] builds an edge table once (O(V + T)), buckets triangles by
-// the levels they span, and then visits only the triangles crossing each
-// level, so the total work is proportional to the mesh size plus the number
-// of contour segments. Output is deterministic: the same mesh gives
+// Cost: [Trace] buckets the triangles by the levels they span, builds an
+// edge table over the triangles that some level crosses, and then visits
+// only the triangles crossing each level, so the total work is proportional
+// to the mesh size plus the number of contour segments. Output is deterministic: the same mesh gives
 // byte-identical lines whatever the order of its triangles and the numbering
 // of its vertices. DESIGN.md describes the data structures.
 package contours

@@ -20,8 +20,8 @@ var (
 	// ErrNonFinite: a vertex used by a triangle has a NaN or infinite
 	// coordinate.
 	ErrNonFinite = errors.New("contours: vertex coordinate is not finite")
-	// ErrNonManifold: an edge is shared by more than two triangles, so a
-	// contour crossing it could continue into more than one.
+	// ErrNonManifold: an edge crossed by a contour level is shared by more
+	// than two triangles, so the contour could continue into more than one.
 	ErrNonManifold = errors.New("contours: edge shared by more than two triangles")
 )
 
@@ -55,12 +55,15 @@ func (e *MeshError) Unwrap() error { return e.Err }
 // for every half-edge h (triangle h/3, from corner h%3 to the next), the
 // half-edge of the neighbouring triangle across it ([mesh.twin]).
 type mesh struct {
-	v    []geom.Vec3
-	t    []int32
-	tris []int32 // usable triangles, ascending
-	link []int32 // link[h] = twin(h) + 1, so that zeroed memory means "boundary"
-	zlo  float64 // elevation range of the vertices of usable triangles
-	zhi  float64 // (zlo > zhi when there are none)
+	v         []geom.Vec3
+	t         []int32
+	nv        uint32
+	allFinite bool    // every vertex has finite coordinates
+	tris      []int32 // usable triangles, ascending (set by listTriangles)
+	link      []int32 // link[h] = twin(h) + 1, so that zeroed memory means "boundary"
+	// zlo, zhi: the elevation range of the finite vertices (newMesh) or of
+	// the corners of usable triangles (listTriangles); zlo > zhi when empty.
+	zlo, zhi float64
 }
 
 // twin returns the half-edge across h in the neighbouring triangle, or -1
@@ -75,148 +78,179 @@ func next(h int32) int32 {
 	return h + 1
 }
 
-// prepare checks m and builds its edge table. In strict mode the first
-// problem is returned as a *MeshError; otherwise unusable triangles (bad
-// indices, repeated vertices, non-finite corners) are left out and edges
-// shared by more than two triangles are treated as boundary edges.
-//
-// Cost: O(V + T) time and memory, plus a sort of the edges at each vertex.
-func prepare(m geom.TriMesh, strict bool) (*mesh, error) {
+// newMesh checks the shape of m and makes one pass over its vertices,
+// noting whether all are finite and the elevation range of the finite
+// ones. Triangles are checked later, by [mesh.listTriangles] or, in
+// [Trace], while they are bucketed.
+func newMesh(m geom.TriMesh, strict bool) (*mesh, error) {
 	nt := len(m.T) / 3
-	if len(m.T)%3 != 0 {
-		if strict {
-			return nil, &MeshError{Triangle: -1, Vertex: -1, Err: ErrTriangleList,
-				detail: fmt.Sprintf("%d indices", len(m.T))}
-		}
+	if len(m.T)%3 != 0 && strict {
+		return nil, &MeshError{Triangle: -1, Vertex: -1, Err: ErrTriangleList,
+			detail: fmt.Sprintf("%d indices", len(m.T))}
 	}
 	if len(m.V) > math.MaxInt32 || len(m.T) > math.MaxInt32 {
 		return nil, &MeshError{Triangle: -1, Vertex: -1, Err: ErrIndex,
 			detail: fmt.Sprintf("mesh too large: %d vertices, %d triangles", len(m.V), nt)}
 	}
-	pm := &mesh{v: m.V, t: m.T[:3*nt], zlo: math.Inf(1), zhi: math.Inf(-1)}
-	nv := uint32(len(m.V))
-	// One pass over the vertices settles finiteness for the common case;
-	// only when some vertex is bad does each triangle check its own.
-	allFinite := true
+	pm := &mesh{v: m.V, t: m.T[:3*nt], nv: uint32(len(m.V)), allFinite: true,
+		zlo: math.Inf(1), zhi: math.Inf(-1)}
 	for _, p := range m.V {
 		if !p.IsFinite() {
-			allFinite = false
-			break
+			pm.allFinite = false
+			continue
+		}
+		if p.Z < pm.zlo {
+			pm.zlo = p.Z
+		}
+		if p.Z > pm.zhi {
+			pm.zhi = p.Z
 		}
 	}
-	// The triangle pass runs in contiguous chunks; the first chunk holding
-	// an error holds the first bad triangle.
-	type part struct {
-		tris     []int32
-		zlo, zhi float64
-		err      error
+	return pm, nil
+}
+
+// prepare checks m and lists its usable triangles, with the elevation range
+// of their corners. In strict mode the first problem is returned as a
+// *MeshError; otherwise unusable triangles (bad indices, repeated vertices,
+// non-finite corners) are left out. The edge table is built afterwards by
+// [mesh.buildTwins], over only the triangles that some level crosses.
+//
+// Cost: O(V + T).
+func prepare(m geom.TriMesh, strict bool) (*mesh, error) {
+	pm, err := newMesh(m, strict)
+	if err != nil {
+		return nil, err
 	}
-	ranges := split(nt, workersFor(nt))
-	parts := make([]part, len(ranges))
-	parallel(len(ranges), func(w int) {
-		p := part{tris: make([]int32, 0, ranges[w][1]-ranges[w][0]), zlo: math.Inf(1), zhi: math.Inf(-1)}
-		p.err = checkTriangles(m, ranges[w][0], ranges[w][1], nv, allFinite, strict, &p.tris, &p.zlo, &p.zhi)
-		parts[w] = p
-	})
-	n := 0
-	for _, p := range parts {
-		if p.err != nil {
-			return nil, p.err
-		}
-		n += len(p.tris)
-		pm.zlo, pm.zhi = math.Min(pm.zlo, p.zlo), math.Max(pm.zhi, p.zhi)
-	}
-	pm.tris = make([]int32, 0, n)
-	for _, p := range parts {
-		pm.tris = append(pm.tris, p.tris...)
-	}
-	if err := pm.buildTwins(strict); err != nil {
+	if err := pm.listTriangles(strict); err != nil {
 		return nil, err
 	}
 	return pm, nil
 }
 
-// checkTriangles checks triangles [from, to) of m, appends the usable ones
-// to tris and widens [zlo, zhi] by their corners' elevations. In strict mode
-// it returns the first problem instead of skipping the triangle.
-func checkTriangles(m geom.TriMesh, from, to int, nv uint32, allFinite, strict bool, tris *[]int32, zlo, zhi *float64) error {
-	lo, hi := *zlo, *zhi
-	for t := from; t < to; t++ {
-		c := m.T[3*t : 3*t+3 : 3*t+3]
-		i0, i1, i2 := c[0], c[1], c[2]
-		if uint32(i0) >= nv || uint32(i1) >= nv || uint32(i2) >= nv {
-			if strict {
-				k, i := 0, i0
-				if uint32(i0) < nv {
-					k, i = 1, i1
-					if uint32(i1) < nv {
-						k, i = 2, i2
-					}
-				}
-				return &MeshError{Triangle: t, Vertex: -1, Err: ErrIndex,
-					detail: fmt.Sprintf("corner %d is %d, want 0 to %d", k, i, int64(nv)-1)}
+// numTriangles returns the number of triangles in pm.t.
+func (pm *mesh) numTriangles() int { return len(pm.t) / 3 }
+
+// listTriangles fills pm.tris with the usable triangles and sets pm.zlo and
+// pm.zhi to the elevation range of their corners. It runs in contiguous
+// chunks; the first chunk holding an error holds the first bad triangle.
+func (pm *mesh) listTriangles(strict bool) error {
+	type part struct {
+		tris     []int32
+		zlo, zhi float64
+		err      error
+	}
+	nt := pm.numTriangles()
+	ranges := split(nt, workersFor(nt))
+	parts := make([]part, len(ranges))
+	parallel(len(ranges), func(w int) {
+		p := part{tris: make([]int32, 0, ranges[w][1]-ranges[w][0]), zlo: math.Inf(1), zhi: math.Inf(-1)}
+		for t := ranges[w][0]; t < ranges[w][1]; t++ {
+			ok, err := pm.checkTriangle(t, strict)
+			if err != nil {
+				p.err = err
+				break
 			}
-			continue
-		}
-		if i0 == i1 || i1 == i2 || i0 == i2 {
-			if strict {
-				return &MeshError{Triangle: t, Vertex: -1, Err: ErrDegenerate,
-					detail: fmt.Sprintf("corners %d, %d, %d", i0, i1, i2)}
-			}
-			continue
-		}
-		p0, p1, p2 := &m.V[i0], &m.V[i1], &m.V[i2]
-		if !allFinite {
-			bad := int32(-1)
-			switch {
-			case !p0.IsFinite():
-				bad = i0
-			case !p1.IsFinite():
-				bad = i1
-			case !p2.IsFinite():
-				bad = i2
-			}
-			if bad >= 0 {
-				if strict {
-					p := m.V[bad]
-					return &MeshError{Triangle: t, Vertex: int(bad), Err: ErrNonFinite,
-						detail: fmt.Sprintf("(%g, %g, %g)", p.X, p.Y, p.Z)}
-				}
+			if !ok {
 				continue
 			}
-		}
-		for _, z := range [3]float64{p0.Z, p1.Z, p2.Z} {
-			if z < lo {
-				lo = z
+			c := pm.t[3*t : 3*t+3 : 3*t+3]
+			for _, i := range c {
+				z := pm.v[i].Z
+				if z < p.zlo {
+					p.zlo = z
+				}
+				if z > p.zhi {
+					p.zhi = z
+				}
 			}
-			if z > hi {
-				hi = z
-			}
+			p.tris = append(p.tris, int32(t))
 		}
-		*tris = append(*tris, int32(t))
+		parts[w] = p
+	})
+	pm.zlo, pm.zhi = math.Inf(1), math.Inf(-1)
+	n := 0
+	for _, p := range parts {
+		if p.err != nil {
+			return p.err
+		}
+		n += len(p.tris)
+		pm.zlo, pm.zhi = math.Min(pm.zlo, p.zlo), math.Max(pm.zhi, p.zhi)
 	}
-	*zlo, *zhi = lo, hi
+	if len(parts) == 1 {
+		pm.tris = parts[0].tris
+		return nil
+	}
+	pm.tris = make([]int32, 0, n)
+	for _, p := range parts {
+		pm.tris = append(pm.tris, p.tris...)
+	}
 	return nil
 }
 
-// buildTwins pairs the half-edges of usable triangles that join the same two
-// vertices (in either direction, so a mesh with some triangles wound the
-// wrong way still links up). Half-edges are grouped by their lower vertex
+// checkTriangle reports whether triangle t is usable: its corners are
+// distinct vertices that exist and have finite coordinates. In strict mode a
+// problem is returned as a *MeshError instead.
+func (pm *mesh) checkTriangle(t int, strict bool) (bool, error) {
+	c := pm.t[3*t : 3*t+3 : 3*t+3]
+	i0, i1, i2 := c[0], c[1], c[2]
+	nv := pm.nv
+	if uint32(i0) >= nv || uint32(i1) >= nv || uint32(i2) >= nv {
+		if !strict {
+			return false, nil
+		}
+		k, i := 0, i0
+		if uint32(i0) < nv {
+			k, i = 1, i1
+			if uint32(i1) < nv {
+				k, i = 2, i2
+			}
+		}
+		return false, &MeshError{Triangle: t, Vertex: -1, Err: ErrIndex,
+			detail: fmt.Sprintf("corner %d is %d, want 0 to %d", k, i, int64(nv)-1)}
+	}
+	if i0 == i1 || i1 == i2 || i0 == i2 {
+		if !strict {
+			return false, nil
+		}
+		return false, &MeshError{Triangle: t, Vertex: -1, Err: ErrDegenerate,
+			detail: fmt.Sprintf("corners %d, %d, %d", i0, i1, i2)}
+	}
+	if !pm.allFinite {
+		for _, i := range c {
+			if p := pm.v[i]; !p.IsFinite() {
+				if !strict {
+					return false, nil
+				}
+				return false, &MeshError{Triangle: t, Vertex: int(i), Err: ErrNonFinite,
+					detail: fmt.Sprintf("(%g, %g, %g)", p.X, p.Y, p.Z)}
+			}
+		}
+	}
+	return true, nil
+}
+
+// buildTwins pairs the half-edges of the triangles tris that join the same
+// two vertices (in either direction, so a mesh with some triangles wound the
+// wrong way still links up). A contour crosses from a triangle only into a
+// neighbour that crosses the same level, so tris need only hold the
+// triangles crossing some level; an edge shared by more than two triangles
+// is then found (strict: returned as ErrNonManifold; otherwise treated as
+// boundary) whenever a level crosses it. Half-edges are grouped by their lower vertex
 // in a counting sort, each entry packing the upper vertex above the
 // half-edge number, so that sorting a group (a handful of entries) puts the
 // copies of each edge side by side.
-func (pm *mesh) buildTwins(strict bool) error {
+func (pm *mesh) buildTwins(tris []int32, strict bool) error {
 	nv := len(pm.v)
 	t := pm.t
 	// Counting sort by lower vertex, in parallel over chunks of triangles:
 	// each chunk counts its half-edges per vertex, the counts become each
 	// chunk's write offsets, and each chunk fills its own slots, so the
 	// result is the same as a sequential pass.
-	ranges := split(len(pm.tris), workersFor(len(pm.tris)))
+	ranges := split(len(tris), workersFor(len(tris)))
 	cnt := make([][]int32, len(ranges))
 	parallel(len(ranges), func(w int) {
 		c := make([]int32, nv)
-		for _, tr := range pm.tris[ranges[w][0]:ranges[w][1]] {
+		for _, tr := range tris[ranges[w][0]:ranges[w][1]] {
 			k := t[3*tr : 3*tr+3 : 3*tr+3]
 			c[min(k[0], k[1])]++
 			c[min(k[1], k[2])]++
@@ -243,7 +277,7 @@ func (pm *mesh) buildTwins(strict bool) error {
 			list[fill[lo]] = uint64(hi)<<32 | uint64(h)
 			fill[lo]++
 		}
-		for _, tr := range pm.tris[ranges[w][0]:ranges[w][1]] {
+		for _, tr := range tris[ranges[w][0]:ranges[w][1]] {
 			h := 3 * tr
 			k := t[h : h+3 : h+3]
 			put(k[0], k[1], h)

@@ -1,6 +1,7 @@
 package contours
 
 import (
+	"errors"
 	"math"
 	"runtime"
 	"slices"
@@ -31,8 +32,11 @@ type Line struct {
 // m must be a mesh as [geom.TriMesh] describes; Trace returns a *[MeshError]
 // for a triangle list whose length is not a multiple of 3, vertex indices
 // out of range, a triangle repeating a vertex, non-finite coordinates on a
-// vertex in use, or an edge shared by more than two triangles. It returns
-// the errors of [Levels] for bad options. An empty mesh gives no lines.
+// vertex in use, or an edge shared by more than two triangles that a level
+// crosses (the edge table is built only where contours run, so a
+// non-manifold edge elsewhere, which cannot change the lines, goes
+// unreported). It returns the errors of [Levels] for bad options. An empty
+// mesh gives no lines.
 //
 // With o.Smooth, every corner of a line that lies inside a mesh edge is cut
 // once, Chaikin-style (Chaikin, "An algorithm for high-speed curve
@@ -46,28 +50,45 @@ type Line struct {
 // other line of its own level (each triangle holds at most one segment per
 // level) or itself.
 //
-// Cost: O(V + T) to build the edge table and level buckets, then O(S) for S
-// output segments; levels are traced in parallel on up to GOMAXPROCS
-// goroutines, with results independent of scheduling.
+// Cost: O(V + T) to check the mesh and bucket the triangles by level, an
+// edge table over the triangles that some level crosses, then O(S) for S
+// output segments; the passes over the mesh and the levels run in parallel on
+// up to GOMAXPROCS goroutines, with results independent of scheduling.
 func Trace(m geom.TriMesh, o Options) ([]Line, error) {
 	if err := o.check(); err != nil {
 		return nil, err
 	}
-	pm, err := prepare(m, true)
+	pm, err := newMesh(m, true)
+	if err != nil || pm.numTriangles() == 0 {
+		return nil, err
+	}
+	// Levels come from the range of all finite vertices, so that the
+	// triangles can be checked in the same pass that buckets them. Only when
+	// that range is unusable (no finite vertex, too many levels, no level at
+	// all) are the triangles checked first and the range taken from their
+	// corners alone.
+	var ls levelSet
+	if pm.zlo <= pm.zhi {
+		ls, err = levels(pm.zlo, pm.zhi, o)
+	}
+	var tooMany *TooManyLevelsError
+	if pm.zlo > pm.zhi || errors.As(err, &tooMany) || (err == nil && len(ls.z) == 0) {
+		if err := pm.listTriangles(true); err != nil || len(pm.tris) == 0 {
+			return nil, err
+		}
+		if ls, err = levels(pm.zlo, pm.zhi, o); err != nil || len(ls.z) == 0 {
+			return nil, err
+		}
+	} else if err != nil {
+		return nil, err
+	}
+	start, bucket, crossing, err := pm.buckets(ls.z)
 	if err != nil {
 		return nil, err
 	}
-	if len(pm.tris) == 0 {
-		return nil, nil
-	}
-	ls, err := levels(pm.zlo, pm.zhi, o)
-	if err != nil {
+	if err := pm.buildTwins(crossing, true); err != nil {
 		return nil, err
 	}
-	if len(ls.z) == 0 {
-		return nil, nil
-	}
-	start, bucket := pm.buckets(ls.z)
 	every := o.indexEvery()
 	out := make([][]Line, len(ls.z))
 	var nextLevel atomic.Int64
@@ -135,6 +156,9 @@ func TraceLevel(m geom.TriMesh, level float64) []Line {
 			cand = append(cand, t)
 		}
 	}
+	if pm.buildTwins(cand, false) != nil {
+		return nil
+	}
 	return newTracer(pm).level(cand, level, false, nil)
 }
 
@@ -145,29 +169,28 @@ func (pm *mesh) crosses(t int32, level float64) bool {
 	return a != b || b != d
 }
 
-// buckets lists, for each level i, the usable triangles crossing it (one
-// corner below, z < level, and one at or above) in bucket[start[i]:start[i+1]],
-// in ascending order. A triangle spans a contiguous run of levels, those in
-// (zmin, zmax] of its corners.
-func (pm *mesh) buckets(lv []float64) (start []int32, bucket []int32) {
+// buckets checks every triangle (as [mesh.checkTriangle] in strict mode,
+// returning the first problem) and lists, for each level i, the triangles
+// crossing it (one corner below, z < level, and one at or above) in
+// bucket[start[i]:start[i+1]], in ascending order, and in crossing the
+// triangles crossing any level, ascending. A triangle spans a contiguous run
+// of levels, those in (zmin, zmax] of its corners.
+func (pm *mesh) buckets(lv []float64) (start, bucket, crossing []int32, err error) {
 	n := len(lv)
 	// upper returns the number of levels <= z, from an estimate on the
 	// (nearly) uniform spacing corrected by exact comparisons.
-	var step float64
-	if n > 1 {
-		step = (lv[n-1] - lv[0]) / float64(n-1)
+	var inv float64
+	if n > 1 && lv[n-1] > lv[0] {
+		inv = float64(n-1) / (lv[n-1] - lv[0])
 	}
 	upper := func(z float64) int {
-		var e int
-		switch {
-		case z < lv[0]:
+		if z < lv[0] {
 			return 0
-		case z >= lv[n-1]:
-			return n
-		case step > 0:
-			e = int((z-lv[0])/step) + 1
-			e = max(0, min(n, e))
 		}
+		if z >= lv[n-1] {
+			return n
+		}
+		e := max(0, min(n, int((z-lv[0])*inv)+1))
 		for e > 0 && lv[e-1] > z {
 			e--
 		}
@@ -176,16 +199,25 @@ func (pm *mesh) buckets(lv []float64) (start []int32, bucket []int32) {
 		}
 		return e
 	}
-	// In parallel over chunks of triangles: find each triangle's run of
-	// levels and count it, turn the counts into each chunk's write offsets,
-	// then fill, so that every bucket lists its triangles in ascending order.
-	span := make([]int32, 2*len(pm.tris))
-	ranges := split(len(pm.tris), workersFor(len(pm.tris)))
+	// In parallel over chunks of triangles: check each triangle, find its
+	// run of levels and count it; turn the counts into each chunk's write
+	// offsets; then fill, so that every bucket lists its triangles in
+	// ascending order. The first chunk holding an error holds the first bad
+	// triangle.
+	type run struct{ t, lo, hi int32 } // triangle t crosses levels [lo, hi)
+	nt := pm.numTriangles()
+	ranges := split(nt, workersFor(nt))
 	cnt := make([][]int32, len(ranges))
+	cross := make([][]run, len(ranges))
+	errs := make([]error, len(ranges))
 	parallel(len(ranges), func(w int) {
 		c := make([]int32, n)
-		for j := ranges[w][0]; j < ranges[w][1]; j++ {
-			t := pm.tris[j]
+		var x []run
+		for t := ranges[w][0]; t < ranges[w][1]; t++ {
+			if _, err := pm.checkTriangle(t, true); err != nil {
+				errs[w] = err
+				return
+			}
 			k := pm.t[3*t : 3*t+3 : 3*t+3]
 			z0, z1, z2 := pm.v[k[0]].Z, pm.v[k[1]].Z, pm.v[k[2]].Z
 			zmin, zmax := z0, z0
@@ -199,14 +231,28 @@ func (pm *mesh) buckets(lv []float64) (start []int32, bucket []int32) {
 			} else if z2 > zmax {
 				zmax = z2
 			}
-			lo, hi := upper(zmin), upper(zmax)
-			span[2*j], span[2*j+1] = int32(lo), int32(hi)
+			lo := upper(zmin)
+			if lo == n || lv[lo] > zmax {
+				continue // no level in (zmin, zmax]
+			}
+			hi := upper(zmax)
+			x = append(x, run{int32(t), int32(lo), int32(hi)})
 			for i := lo; i < hi; i++ {
 				c[i]++
 			}
 		}
-		cnt[w] = c
+		cnt[w], cross[w] = c, x
 	})
+	for _, err := range errs {
+		if err != nil {
+			return nil, nil, nil, err
+		}
+	}
+	for _, x := range cross {
+		for _, r := range x {
+			crossing = append(crossing, r.t)
+		}
+	}
 	start = make([]int32, n+1)
 	var off int32
 	for i := range n {
@@ -221,15 +267,14 @@ func (pm *mesh) buckets(lv []float64) (start []int32, bucket []int32) {
 	bucket = make([]int32, off)
 	parallel(len(ranges), func(w int) {
 		fill := cnt[w]
-		for j := ranges[w][0]; j < ranges[w][1]; j++ {
-			t := pm.tris[j]
-			for i := span[2*j]; i < span[2*j+1]; i++ {
-				bucket[fill[i]] = t
+		for _, r := range cross[w] {
+			for i := r.lo; i < r.hi; i++ {
+				bucket[fill[i]] = r.t
 				fill[i]++
 			}
 		}
 	})
-	return start, bucket
+	return start, bucket, crossing, nil
 }
 
 // point is a traced contour point: its position and the half-edge it lies

@@ -442,7 +442,7 @@ func TestTrace_BadMesh(t *testing.T) {
 	nan := fanMesh(6, 1, 1, 0)
 	nan.V[3].Z = math.NaN()
 	nonManifold := fanMesh(6, 1, 1, 0)
-	nonManifold.V = append(nonManifold.V, geom.Vec3{X: 0.5, Y: 2, Z: 0})
+	nonManifold.V = append(nonManifold.V, geom.Vec3{X: 0.5, Y: 2, Z: 1}) // so that level 0.5 crosses all three
 	nonManifold.T = append(nonManifold.T, 1, 2, 7, 2, 1, 7)
 	for _, tc := range []struct {
 		name  string
