@@ -78,9 +78,10 @@ const (
 	rootZTolM = 1e-10
 	// flatTolM is how far the bowl may stray from the chord at an
 	// interval's midpoint before the interval is split. A deviation δ over
-	// an interval Δt changes the developed length by about 8δ²/(3Δt):
-	// 3e-8 m for δ = 0.1 mm over 1 m, negligible against 1 mm.
-	flatTolM = 1e-4
+	// an interval Δt shortens the developed length by about 8δ²/(3Δt):
+	// 1.3e-5 m for δ = 0.5 mm over 5 cm, so a section bending all along is
+	// short by a fraction of a millimetre.
+	flatTolM = 5e-4
 	// maxSplit bounds the splitting of one interval: 2⁻¹² of a coarse step.
 	maxSplit = 12
 )
@@ -95,7 +96,7 @@ const (
 // 1971) and kept as points of the profile. A dip narrower than the coarse
 // step that no zone edge crosses (a line grazing a wall's outer edge) can
 // be missed; the coarse step is kept below half the narrowest wall band.
-// It keeps scratch buffers, so one value serves one goroutine.
+// It keeps scratch buffers, so one value serves one goroutine (see clone).
 type analyticProfile struct {
 	bowl  Bowl
 	rim   float64
@@ -106,6 +107,11 @@ type analyticProfile struct {
 	bps   []float64
 	pts   []sample
 	o, u  geom.Vec2
+}
+
+// clone returns a profile on the same bowl with its own scratch buffers.
+func (p *analyticProfile) clone() *analyticProfile {
+	return &analyticProfile{bowl: p.bowl, rim: p.rim, rings: p.rings, step: p.step}
 }
 
 // sample is a point of a profile: the parameter along the line, the bowl
@@ -371,8 +377,11 @@ func longestSection(p profiler, hull []geom.Vec2, theta float64, n int, refine b
 // guide ranks the n lines, and they are measured by p in the guide's order,
 // longest first, until the guide's length of the next line falls below the
 // best measured length less slack. slack must bound how much the guide can
-// understate a line; overstating only costs time. The offset of the best
-// line is then refined by golden section on p.
+// understate a line; overstating only costs time. The best line's offset
+// is then refined by successive parabolic interpolation through it and its
+// neighbours (Brent, Algorithms for Minimization without Derivatives, 1973,
+// ch. 5), which finds the top of a smooth maximum in a few measurements
+// and leaves a flat one (a rectangle's floor) alone.
 func longestGuided(p, guide profiler, hull []geom.Vec2, theta float64, n int, slack, margin float64) float64 {
 	u := geom.Vec2{X: math.Cos(theta), Y: math.Sin(theta)}
 	nv := geom.Vec2{X: -u.Y, Y: u.X}
@@ -385,38 +394,62 @@ func longestGuided(p, guide profiler, hull []geom.Vec2, theta float64, n int, sl
 		return f(b0)
 	}
 	sp := w / float64(n)
-	type line struct{ b, g float64 }
+	type line struct {
+		b, g float64
+		k    int
+	}
 	lines := make([]line, n)
 	for k := range lines {
 		b := b0 + (float64(k)+0.5)*sp
-		lines[k] = line{b, guide.develop(nv.Scale(b), u, t0, t1)}
+		lines[k] = line{b, guide.develop(nv.Scale(b), u, t0, t1), k}
 	}
 	slices.SortStableFunc(lines, func(x, y line) int { return cmp.Compare(y.g, x.g) })
-	best, bestB := -1.0, b0
+	measured := make(map[int]float64)
+	best, bestK := -1.0, 0
 	for _, l := range lines {
 		if best >= 0 && l.g < best-slack {
 			break
 		}
-		if v := f(l.b); v > best {
-			best, bestB = v, l.b
+		v := f(l.b)
+		measured[l.k] = v
+		if v > best || (v == best && l.k < bestK) {
+			best, bestK = v, l.k
 		}
 	}
-	lo, hi := math.Max(b0, bestB-sp), math.Min(b1, bestB+sp)
-	x1, x2 := hi-invPhi*(hi-lo), lo+invPhi*(hi-lo)
-	f1, f2 := f(x1), f(x2)
-	best = math.Max(best, math.Max(f1, f2))
-	for range 8 {
-		if f1 >= f2 {
-			hi, x2, f2 = x2, x1, f1
-			x1 = hi - invPhi*(hi-lo)
-			f1 = f(x1)
-			best = math.Max(best, f1)
-		} else {
-			lo, x1, f1 = x1, x2, f2
-			x2 = lo + invPhi*(hi-lo)
-			f2 = f(x2)
-			best = math.Max(best, f2)
+	at := func(k int) float64 {
+		if v, ok := measured[k]; ok {
+			return v
 		}
+		v := f(b0 + (float64(k)+0.5)*sp)
+		measured[k] = v
+		return v
+	}
+	if bestK == 0 || bestK == n-1 {
+		return best
+	}
+	// Parabolic steps through (x−h, x, x+h), narrowing h each time.
+	x, fx := b0+(float64(bestK)+0.5)*sp, best
+	fl, fr := at(bestK-1), at(bestK+1)
+	h := sp
+	for range 3 {
+		den := fl - 2*fx + fr
+		if !(den < 0) { // not strictly concave: flat or a kink
+			break
+		}
+		dx := h * (fl - fr) / (2 * den)
+		if math.Abs(dx) >= h || math.Abs(dx) < 1e-3*h {
+			break
+		}
+		nx := x + dx
+		fn := f(nx)
+		if fn <= fx {
+			break
+		}
+		best = fn
+		x, fx = nx, fn
+		h = math.Abs(dx)
+		fl, fr = f(x-h), f(x+h)
+		best = math.Max(best, math.Max(fl, fr))
 	}
 	return best
 }

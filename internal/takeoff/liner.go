@@ -248,9 +248,15 @@ type LinerOptions struct {
 	SectionSpacingM float64
 	// SectionStepM is the coarse sampling step along a cross-section on the
 	// analytic bowl (intervals are split where the bowl bends); 0 means
-	// 1/96 of the pond's extent or half the narrowest wall band.
+	// 1/48 of the pond's extent or half the narrowest wall band.
 	SectionStepM float64
 }
+
+// maxRasterSteps bounds the raster's steps across the pond's extent: 512
+// ranks the angles of a large pond as well as a finer raster would (its
+// sections are off by a step at each end, 0.4 % of the extent at most),
+// and bounds the sheet search's cost on a fine mesh.
+const maxRasterSteps = 512
 
 // DefaultOverlapM is the default overlap beyond the rim: 1 ft.
 const DefaultOverlapM = units.Foot
@@ -382,7 +388,7 @@ func MeasureLiner(in LinerInput, o LinerOptions) (LinerResult, *UnderlaymentResu
 		return res, nil, nil, fmt.Errorf("%w: no part of the bowl mesh lies below the rim at %.3f m", ErrInput, R)
 	}
 	cell := meshCell(m)
-	rim := rimOutline(m, R, in.Bowl, in.Zones, cell)
+	rim := rimOutline(m, R, in.WaterLevelM, in.Bowl, in.Zones, cell)
 	res.RimPerimeterM = rim.perimeter
 	res.OverlapM = overlap
 	res.OverlapAreaM2 = rim.perimeter * overlap
@@ -405,11 +411,16 @@ func MeasureLiner(in LinerInput, o LinerOptions) (LinerResult, *UnderlaymentResu
 			ext = math.Max(ext, hull[i].Distance(hull[j]))
 		}
 	}
-	hr := cell / 2
+	// The raster ranks angles; half a mesh cell resolves the mesh, and
+	// maxRasterSteps across the pond is enough to rank a large one.
+	hr := math.Max(cell/2, ext/maxRasterSteps)
 	if !(hr > 0) {
 		hr = ext / 200
 	}
 	ras := newRaster(m, R, hr)
+	// res is the coarser of the mesh's and the raster's resolution: walls
+	// steeper than two of it are smeared.
+	resol := math.Max(cell, 2*ras.h)
 	s := &sheetSearch{
 		coarse:      &rasterProfile{r: ras, step: 2 * ras.h},
 		fine:        &rasterProfile{r: ras, step: ras.h},
@@ -422,13 +433,13 @@ func MeasureLiner(in LinerInput, o LinerOptions) (LinerResult, *UnderlaymentResu
 	s.exact, s.exactLines = s.fine, s.fineLines
 	res.SectionMethod = "mesh"
 	if in.Bowl != nil {
-		// The coarse step along a line: 1/96 of the extent, and at most half
+		// The coarse step along a line: 1/48 of the extent, and at most half
 		// the narrowest sloped wall band (run of a wall from its floor to the
 		// rim), so that no wall is stepped over; 1/1024 of the extent at
 		// least.
 		step := o.SectionStepM
 		if step == 0 {
-			step = ext / 96
+			step = ext / 48
 			for _, z := range in.Zones {
 				if band := z.WallSlope * (R - (in.WaterLevelM - z.DepthM)); z.WallSlope > 0 && band > 0 {
 					step = math.Min(step, band/2)
@@ -439,19 +450,21 @@ func MeasureLiner(in LinerInput, o LinerOptions) (LinerResult, *UnderlaymentResu
 		ap := &analyticProfile{bowl: in.Bowl, rim: R, step: step}
 		// The raster overstates lines on sloped walls (its capped cells
 		// reach past the rim) and understates them by at most a couple of
-		// its steps; but a wall steeper than the lattice resolves (a band
-		// narrower than two cells, vertical included) it smears into a
-		// gentle slope, and a line crossing it at a grazing angle loses up
-		// to the wall's height at each of its two crossings.
+		// its steps; but a wall steeper than the mesh and raster resolve (a
+		// band narrower than two of resol, vertical included) it smears
+		// into a gentle slope, and a line crossing it at a grazing angle
+		// loses up to the wall's height at each of its two crossings.
 		slack := 2 * ras.h
+		s.steadyRaster = true
 		for _, z := range in.Zones {
 			if len(z.Ring) < 3 {
 				continue
 			}
 			ap.rings = append(ap.rings, breakRing{ring: z.Ring, vertical: z.WallSlope == 0})
 			h := R - (in.WaterLevelM - z.DepthM)
-			if z.WallSlope*h < 2*cell {
+			if z.WallSlope*h < 2*resol {
 				slack += 2 * math.Max(h, 0)
+				s.steadyRaster = false
 			}
 		}
 		s.exact = ap
@@ -521,19 +534,49 @@ func MeasureLiner(in LinerInput, o LinerOptions) (LinerResult, *UnderlaymentResu
 }
 
 // rimData is the rim outline measured on the mesh: its length and the
-// points that span it (outline ends, moved onto the analytic bowl when
-// there is one, plus vertical-wall corners on the rim).
+// points that span it (outline ends, moved onto the analytic bowl near
+// steep walls, plus vertical-wall corners on the rim).
 type rimData struct {
 	perimeter float64
 	points    []geom.Vec2
 }
 
+// steepBoxes returns, for every zone whose wall the lattice cannot resolve
+// (a run from floor to rim shorter than two cells, vertical walls
+// included), its floor's bounding box grown by reach. Only contour points
+// inside these boxes need moving onto the analytic bowl: elsewhere the mesh
+// interpolates a bowl it resolves, and its level line is within O(h²) of
+// the true one.
+func steepBoxes(zones []Zone, water, rim, cell, reach float64) []geom.Box {
+	var bs []geom.Box
+	for _, z := range zones {
+		if len(z.Ring) < 3 {
+			continue
+		}
+		h := rim - (water - z.DepthM)
+		if z.WallSlope*h < 2*cell {
+			bs = append(bs, z.Ring.Bounds().Expand(z.WallSlope*math.Max(h, 0)+reach))
+		}
+	}
+	return bs
+}
+
+func inAny(bs []geom.Box, p geom.Vec2) bool {
+	for _, b := range bs {
+		if b.Contains(p) {
+			return true
+		}
+	}
+	return false
+}
+
 // rimOutline measures the outline of the part of m below level. With an
-// analytic bowl, each outline end is moved onto bowl = level along the
-// outward direction within 1.5 cells (a vertical wall is smeared over one
-// cell of the lattice), and the corners of vertical-walled zones that lie on
-// the level line are added to the points.
-func rimOutline(m geom.TriMesh, level float64, b Bowl, zones []Zone, cell float64) rimData {
+// analytic bowl, each outline end near a steep wall (see steepBoxes) is
+// moved onto bowl = level along the outward direction within 1.5 cells (a
+// vertical wall is smeared over one cell of the lattice), and the corners
+// of vertical-walled zones that lie on the level line are added to the
+// points.
+func rimOutline(m geom.TriMesh, level, water float64, b Bowl, zones []Zone, cell float64) rimData {
 	segs := levelOutline(m, level)
 	var d rimData
 	var s geom.Sum
@@ -541,15 +584,20 @@ func rimOutline(m geom.TriMesh, level float64, b Bowl, zones []Zone, cell float6
 		q  geom.Vec2
 		ok bool
 	}
+	reach := 1.5 * cell
+	var boxes []geom.Box
+	if b != nil {
+		boxes = steepBoxes(zones, water, level, cell, reach)
+	}
 	cache := map[geom.Vec2]moved{}
 	mv := func(p, dir geom.Vec2) (geom.Vec2, bool) {
-		if b == nil {
+		if !inAny(boxes, p) {
 			return p, true
 		}
 		if c, ok := cache[p]; ok {
 			return c.q, c.ok
 		}
-		q, ok := snapAround(b, p, dir, level, 1.5*cell)
+		q, ok := snapAround(b, p, dir, level, reach)
 		cache[p] = moved{q, ok}
 		return q, ok
 	}

@@ -95,7 +95,7 @@ type outlineSeg struct {
 // below level: the level crossings inside triangles and the pieces of the
 // mesh's own boundary edges that lie below the level (a mesh that stops
 // short of the rim). Segments come in triangle order and are not chained.
-// Cost O(T log T) for the boundary-edge search.
+// Cost O(T).
 func levelOutline(m geom.TriMesh, level float64) []outlineSeg {
 	var segs []outlineSeg
 	for t := range m.NumTriangles() {
@@ -122,36 +122,36 @@ func levelOutline(m geom.TriMesh, level float64) []outlineSeg {
 		}
 		segs = append(segs, outlineSeg{a: pts[0], b: pts[1], out: g.Scale(1 / g.Norm())})
 	}
-	// Boundary edges: used by one triangle only.
-	type half struct {
-		key  uint64
-		a, b int32
+	// Boundary edges: a half-edge a→b whose twin b→a no triangle has.
+	// Half-edges are bucketed by their origin (a counting sort), so each
+	// twin is looked up among the few edges leaving b. Cost O(T).
+	nv := len(m.V)
+	start := make([]int32, nv+1)
+	for _, a := range m.T {
+		start[a+1]++
 	}
-	n := m.NumTriangles()
-	hs := make([]half, 0, 3*n)
-	for t := range n {
+	for i := range nv {
+		start[i+1] += start[i]
+	}
+	fill := slices.Clone(start[:nv])
+	to := make([]int32, len(m.T))
+	for t := range m.NumTriangles() {
 		for i := range 3 {
 			a, b := m.T[3*t+i], m.T[3*t+(i+1)%3]
-			lo, hi := min(a, b), max(a, b)
-			hs = append(hs, half{key: uint64(uint32(lo))<<32 | uint64(uint32(hi)), a: a, b: b})
+			to[fill[a]] = b
+			fill[a]++
 		}
 	}
-	slices.SortFunc(hs, func(x, y half) int {
-		switch {
-		case x.key < y.key:
-			return -1
-		case x.key > y.key:
-			return 1
-		}
-		return 0
-	})
-	for i := 0; i < len(hs); {
-		j := i + 1
-		for j < len(hs) && hs[j].key == hs[i].key {
-			j++
-		}
-		if j-i == 1 {
-			p, q := m.V[hs[i].a], m.V[hs[i].b]
+	for t := range m.NumTriangles() {
+		for i := range 3 {
+			a, b := m.T[3*t+i], m.T[3*t+(i+1)%3]
+			if !(m.V[a].Z < level) && !(m.V[b].Z < level) {
+				continue
+			}
+			if slices.Contains(to[start[b]:start[b+1]], a) {
+				continue
+			}
+			p, q := m.V[a], m.V[b]
 			if s, ok := edgeBelow(p, q, level); ok {
 				d := q.XY().Sub(p.XY())
 				// Triangles are counter-clockwise, so the outside of a
@@ -161,7 +161,6 @@ func levelOutline(m geom.TriMesh, level float64) []outlineSeg {
 				segs = append(segs, s)
 			}
 		}
-		i = j
 	}
 	return segs
 }

@@ -86,10 +86,10 @@ type ShorelineInput struct {
 
 // MeasureShoreline measures the water line. Each contour line becomes a
 // [Loop] (closing point dropped, wound counter-clockwise, started at its
-// westernmost point); with an analytic bowl its points are first moved onto
-// the level by bisection along the line's normal, within 1.5 mesh cells,
-// and corners of vertical-walled zones that lie on the water line are put
-// back. Loops are sorted longest first. The water area is the nested area
+// westernmost point); with an analytic bowl its points near walls steeper
+// than the lattice resolves are first moved onto the level along the
+// line's normal, within 1.5 mesh cells, and corners of vertical-walled
+// zones that lie on the water line are put back. Loops are sorted longest first. The water area is the nested area
 // of the closed loops (islands subtracted) when every loop closes, else the
 // plan area of the mesh below the water level.
 func MeasureShoreline(in ShorelineInput, o ShorelineOptions) (ShorelineResult, error) {
@@ -106,8 +106,10 @@ func MeasureShoreline(in ShorelineInput, o ShorelineOptions) (ShorelineResult, e
 	}
 	cell := meshCell(in.Mesh)
 	var corners []geom.Vec2
+	var boxes []geom.Box
 	if in.Bowl != nil {
 		corners = wallCorners(in.Bowl, in.Zones, in.WaterLevelM)
+		boxes = steepBoxes(in.Zones, in.WaterLevelM, in.WaterLevelM, cell, 1.5*cell)
 	}
 	var loops []Loop
 	for _, ln := range in.Lines {
@@ -121,7 +123,7 @@ func MeasureShoreline(in ShorelineInput, o ShorelineOptions) (ShorelineResult, e
 			continue
 		}
 		if in.Bowl != nil && cell > 0 {
-			pts = snapLine(in.Bowl, pts, closed, in.WaterLevelM, 1.5*cell)
+			pts = snapLine(in.Bowl, pts, closed, in.WaterLevelM, 1.5*cell, boxes)
 			if closed {
 				pts = insertCorners(pts, corners, 1.5*cell)
 			}
@@ -215,14 +217,18 @@ func canonicalLoop(pts []geom.Vec2, closed bool) Loop {
 	return Loop{Pts: pts, Closed: true, LengthM: r.Perimeter(), AreaM2: r.Area()}
 }
 
-// snapLine moves each point of a contour line onto bowl = level along the
-// line's normal at that point (the perpendicular of the chord between its
-// neighbours), within reach. The normal's sign does not matter: snap
-// brackets both ways.
-func snapLine(b Bowl, pts []geom.Vec2, closed bool, level, reach float64) []geom.Vec2 {
+// snapLine moves each point of a contour line inside one of boxes onto
+// bowl = level along the line's normal at that point (the perpendicular of
+// the chord between its neighbours), within reach. The normal's sign does
+// not matter: snap brackets both ways.
+func snapLine(b Bowl, pts []geom.Vec2, closed bool, level, reach float64, boxes []geom.Box) []geom.Vec2 {
 	out := make([]geom.Vec2, len(pts))
 	n := len(pts)
 	for i, p := range pts {
+		if !inAny(boxes, p) {
+			out[i] = p
+			continue
+		}
 		var a, c geom.Vec2
 		switch {
 		case closed:

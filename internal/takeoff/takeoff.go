@@ -10,7 +10,9 @@ import (
 )
 
 // Bowl is the analytic design bowl: its elevation E (m) at a plan point in
-// the local frame. Package design's Surface satisfies it.
+// the local frame, +Inf where no zone reaches. BowlAt must be safe for
+// concurrent use (the sheet search measures two directions at once).
+// Package design's Surface satisfies it.
 type Bowl interface {
 	BowlAt(p geom.Vec2) float64
 }
