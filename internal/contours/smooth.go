@@ -1,6 +1,10 @@
 package contours
 
-import "github.com/dugout-estimating/dugout/internal/geom"
+import (
+	"math"
+
+	"github.com/dugout-estimating/dugout/internal/geom"
+)
 
 // smoothBand is the largest departure from the line's own level, as a
 // fraction of the contour interval, that a smoothing cut may reach. Any value
@@ -13,6 +17,14 @@ const smoothBand = 0.5
 // the edge inside it" clear of round-off at the edge's end vertices, where the
 // cut would leave the two triangles around the corner.
 const smoothEdgeMargin = 1.0 / 1024
+
+// smoothSideMargin is how far, as a fraction of |edge|·|cut|, each end of a
+// cut must be from the line of the mesh edge it crosses (the cross products
+// below measure it). The cross products carry a rounding error of a few
+// units in 1e-16 of |edge|·|distance to the edge's start|, so 1e-9 keeps the
+// "opposite sides" test clear of round-off for cuts on meshes up to 1e6
+// times larger than the cut.
+const smoothSideMargin = 1e-9
 
 // smoothFractions are the corner cuts tried in turn, as fractions of each
 // neighbouring segment measured from the corner; a quarter is Chaikin's.
@@ -65,6 +77,9 @@ func (s *smoother) ok(h int32, a, b geom.Vec2) bool {
 	da := e.Cross(a.Sub(p.XY()))
 	db := e.Cross(b.Sub(p.XY()))
 	if !(da < 0 && db > 0 || da > 0 && db < 0) {
+		return false
+	}
+	if m := smoothSideMargin * e.Norm() * b.Sub(a).Norm(); math.Abs(da) <= m || math.Abs(db) <= m {
 		return false
 	}
 	x := a.Lerp(b, da/(da-db)) // where the cut meets the edge's line
