@@ -20,11 +20,15 @@ const smoothEdgeMargin = 1.0 / 1024
 
 // smoothSideMargin is how far, as a fraction of |edge|·|cut|, each end of a
 // cut must be from the line of the mesh edge it crosses (the cross products
-// below measure it). The cross products carry a rounding error of a few
-// units in 1e-16 of |edge|·|distance to the edge's start|, so 1e-9 keeps the
-// "opposite sides" test clear of round-off for cuts on meshes up to 1e6
-// times larger than the cut.
-const smoothSideMargin = 1e-9
+// in ok measure it). Both ends lie in the triangles on either side of the
+// edge, within a triangle's size of it, so each cross product is off by at
+// most about 4ε·|edge|² (ε = 2⁻⁵³, three roundings plus the differences);
+// that is below the margin whenever the cut is longer than
+// smoothMinCut·|edge|, and shorter cuts are not made.
+const (
+	smoothSideMargin = 1e-9
+	smoothMinCut     = 1e-6
+)
 
 // smoothFractions are the corner cuts tried in turn, as fractions of each
 // neighbouring segment measured from the corner; a quarter is Chaikin's.
@@ -79,7 +83,11 @@ func (s *smoother) ok(h int32, a, b geom.Vec2) bool {
 	if !(da < 0 && db > 0 || da > 0 && db < 0) {
 		return false
 	}
-	if m := smoothSideMargin * e.Norm() * b.Sub(a).Norm(); math.Abs(da) <= m || math.Abs(db) <= m {
+	el, cl := e.Norm(), b.Sub(a).Norm()
+	if cl < smoothMinCut*el {
+		return false
+	}
+	if m := smoothSideMargin * el * cl; math.Abs(da) <= m || math.Abs(db) <= m {
 		return false
 	}
 	x := a.Lerp(b, da/(da-db)) // where the cut meets the edge's line
