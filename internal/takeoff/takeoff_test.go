@@ -169,3 +169,28 @@ func TestCompute_WallGravel(t *testing.T) {
 		t.Errorf("gravel %+v, want floor 10 m² and walls %g m²", g, wantWall)
 	}
 }
+
+func TestCompute_Degenerate(t *testing.T) {
+	// One triangle dipping below the rim, and a bowl whose water level is
+	// below every vertex: measured without panics, with a warning for the
+	// dry bowl. The triangle's water line runs into the mesh's edge: one
+	// open line, the water area measured on the mesh.
+	one := geom.TriMesh{V: []geom.Vec3{{X: 0, Y: 0, Z: 9}, {X: 2, Y: 0, Z: 10.5}, {X: 0, Y: 2, Z: 10.5}}, T: []int32{0, 1, 2}}
+	res, err := Compute(Input{BowlMesh: one, WaterLevelM: 9.5, RimM: 10}, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if sh := res.Shoreline; !(res.Liner.DevelopedAreaM2 > 0) || sh.Loops != 1 || sh.LoopDetail[0].Closed || res.Water.VolumeM3 <= 0 {
+		t.Errorf("one triangle: liner %+v shoreline %+v water %+v", res.Liner, res.Shoreline, res.Water)
+	}
+	dry, err := Compute(Input{BowlMesh: one, WaterLevelM: 8, RimM: 10}, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if dry.Water.VolumeM3 != 0 || len(dry.Warnings) == 0 {
+		t.Errorf("dry bowl: water %+v, warnings %q", dry.Water, dry.Warnings)
+	}
+	if _, err := json.Marshal(dry); err != nil {
+		t.Errorf("dry bowl does not marshal: %v", err)
+	}
+}
