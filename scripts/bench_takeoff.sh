@@ -1,8 +1,10 @@
 #!/usr/bin/env bash
-# Benchmarks of the takeoff: a demo-sized pond (target under 100 ms) and a
-# design surface of about 1e6 triangles (target under 2 s, sheet angle search
-# included). Extra arguments go to `go test`, e.g. -benchtime=10x or -count=5
-# for benchstat.
+# Benchmarks of the takeoff, on the package's own analytic stand-in bowl
+# (BenchmarkTakeoff*) and on surfaces built by the design package
+# (BenchmarkFromDesign*): a demo-sized pond (target under 100 ms) and about
+# 1e6 bowl triangles (target under 2 s, the sheet's angle search included).
+# BENCHTIME sets -benchtime (default 3x); extra arguments go to `go test`,
+# e.g. -count=5 for benchstat.
 set -euo pipefail
 cd "$(dirname "$0")/.."
-go test -run '^$' -bench 'BenchmarkTakeoff' -benchtime="${BENCHTIME:-3x}" "$@" ./internal/takeoff/
+go test -run '^$' -bench 'Benchmark(Takeoff|FromDesign)' -benchtime="${BENCHTIME:-3x}" "$@" ./internal/takeoff/
