@@ -60,14 +60,20 @@ type mesh struct {
 	nv        uint32
 	allFinite bool    // every vertex has finite coordinates
 	tris      []int32 // usable triangles, ascending (set by listTriangles)
-	link      []int32 // link[h] = twin(h) + 1, so that zeroed memory means "boundary"
+	// The triangles that contours run through get compact numbers 0..n-1
+	// (see compact): orig[c] is the mesh triangle of compact triangle c and
+	// ct[3c:3c+3] its corners. Tracing works on compact triangles and
+	// half-edges only, which keeps its memory dense.
+	orig []int32
+	ct   []int32
+	link []int32 // link[h] = twin(h) + 1 over compact half-edges; zero means "boundary"
 	// zlo, zhi: the elevation range of the finite vertices (newMesh) or of
 	// the corners of usable triangles (listTriangles); zlo > zhi when empty.
 	zlo, zhi float64
 }
 
-// twin returns the half-edge across h in the neighbouring triangle, or -1
-// when h is on the boundary.
+// twin returns the compact half-edge across compact half-edge h in the
+// neighbouring triangle, or -1 when h is on the boundary.
 func (pm *mesh) twin(h int32) int32 { return pm.link[h] - 1 }
 
 // next returns the half-edge after h in its triangle.
@@ -229,28 +235,43 @@ func (pm *mesh) checkTriangle(t int, strict bool) (bool, error) {
 	return true, nil
 }
 
-// buildTwins pairs the half-edges of the triangles tris that join the same
-// two vertices (in either direction, so a mesh with some triangles wound the
+// compact numbers the triangles tris (ascending mesh triangles) 0..n-1 for
+// tracing: it records them in pm.orig and gathers their corners into pm.ct.
+func (pm *mesh) compact(tris []int32) {
+	pm.orig = tris
+	pm.ct = make([]int32, 3*len(tris))
+	ranges := split(len(tris), workersFor(len(tris)))
+	parallel(len(ranges), func(w int) {
+		for c := ranges[w][0]; c < ranges[w][1]; c++ {
+			t := tris[c]
+			copy(pm.ct[3*c:3*c+3], pm.t[3*t:3*t+3])
+		}
+	})
+}
+
+// buildTwins pairs the half-edges of the compact triangles (see compact)
+// that join the same two vertices (in either direction, so a mesh with some triangles wound the
 // wrong way still links up). A contour crosses from a triangle only into a
-// neighbour that crosses the same level, so tris need only hold the
-// triangles crossing some level; an edge shared by more than two triangles
+// neighbour that crosses the same level, so the compact triangles need only
+// be those crossing some level; an edge shared by more than two triangles
 // is then found (strict: returned as ErrNonManifold; otherwise treated as
 // boundary) whenever a level crosses it. Half-edges are grouped by their lower vertex
 // in a counting sort, each entry packing the upper vertex above the
 // half-edge number, so that sorting a group (a handful of entries) puts the
 // copies of each edge side by side.
-func (pm *mesh) buildTwins(tris []int32, strict bool) error {
+func (pm *mesh) buildTwins(strict bool) error {
 	nv := len(pm.v)
-	t := pm.t
+	t := pm.ct
+	nc := int32(len(t) / 3)
 	// Counting sort by lower vertex, in parallel over chunks of triangles:
 	// each chunk counts its half-edges per vertex, the counts become each
 	// chunk's write offsets, and each chunk fills its own slots, so the
 	// result is the same as a sequential pass.
-	ranges := split(len(tris), workersFor(len(tris)))
+	ranges := split(int(nc), workersFor(int(nc)))
 	cnt := make([][]int32, len(ranges))
 	parallel(len(ranges), func(w int) {
 		c := make([]int32, nv)
-		for _, tr := range tris[ranges[w][0]:ranges[w][1]] {
+		for tr := int32(ranges[w][0]); tr < int32(ranges[w][1]); tr++ {
 			k := t[3*tr : 3*tr+3 : 3*tr+3]
 			c[min(k[0], k[1])]++
 			c[min(k[1], k[2])]++
@@ -277,7 +298,7 @@ func (pm *mesh) buildTwins(tris []int32, strict bool) error {
 			list[fill[lo]] = uint64(hi)<<32 | uint64(h)
 			fill[lo]++
 		}
-		for _, tr := range tris[ranges[w][0]:ranges[w][1]] {
+		for tr := int32(ranges[w][0]); tr < int32(ranges[w][1]); tr++ {
 			h := 3 * tr
 			k := t[h : h+3 : h+3]
 			put(k[0], k[1], h)
@@ -317,7 +338,7 @@ func (pm *mesh) buildTwins(tris []int32, strict bool) error {
 					pm.link[a], pm.link[b] = b+1, a+1
 				default:
 					if strict {
-						errs[w] = &MeshError{Triangle: int(uint32(g[i])) / 3, Vertex: -1, Err: ErrNonManifold,
+						errs[w] = &MeshError{Triangle: int(pm.orig[uint32(g[i])/3]), Vertex: -1, Err: ErrNonManifold,
 							detail: fmt.Sprintf("edge %d-%d is used by %d triangles", v, up, j-i)}
 						return
 					}

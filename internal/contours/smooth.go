@@ -76,7 +76,7 @@ func (s *smoother) smooth(buf []geom.Vec2, seq []point, closed bool) []geom.Vec2
 // within the band of the level. The surface is linear along the edge and on
 // each triangle, so the cut then stays within the band everywhere.
 func (s *smoother) ok(h int32, a, b geom.Vec2) bool {
-	p, q := s.m.v[s.m.t[h]], s.m.v[s.m.t[next(h)]]
+	p, q := s.m.v[s.m.ct[h]], s.m.v[s.m.ct[next(h)]]
 	e := q.XY().Sub(p.XY())
 	da := e.Cross(a.Sub(p.XY()))
 	db := e.Cross(b.Sub(p.XY()))

@@ -86,7 +86,8 @@ func Trace(m geom.TriMesh, o Options) ([]Line, error) {
 	if err != nil {
 		return nil, err
 	}
-	if err := pm.buildTwins(crossing, true); err != nil {
+	pm.compact(crossing)
+	if err := pm.buildTwins(true); err != nil {
 		return nil, err
 	}
 	every := o.indexEvery()
@@ -156,8 +157,12 @@ func TraceLevel(m geom.TriMesh, level float64) []Line {
 			cand = append(cand, t)
 		}
 	}
-	if pm.buildTwins(cand, false) != nil {
+	pm.compact(cand)
+	if pm.buildTwins(false) != nil {
 		return nil
+	}
+	for i := range cand {
+		cand[i] = int32(i) // the compact numbers of the candidates
 	}
 	return newTracer(pm).level(cand, level, false, nil)
 }
@@ -170,10 +175,11 @@ func (pm *mesh) crosses(t int32, level float64) bool {
 }
 
 // buckets checks every triangle (as [mesh.checkTriangle] in strict mode,
-// returning the first problem) and lists, for each level i, the triangles
-// crossing it (one corner below, z < level, and one at or above) in
-// bucket[start[i]:start[i+1]], in ascending order, and in crossing the
-// triangles crossing any level, ascending. A triangle spans a contiguous run
+// returning the first problem), lists in crossing the triangles crossing any
+// level (one corner below, z < level, and one at or above), ascending, and
+// lists for each level i the triangles crossing it, by their index in
+// crossing (their compact number, see [mesh.compact]), in
+// bucket[start[i]:start[i+1]], ascending. A triangle spans a contiguous run
 // of levels, those in (zmin, zmax] of its corners.
 func (pm *mesh) buckets(lv []float64) (start, bucket, crossing []int32, err error) {
 	n := len(lv)
@@ -265,11 +271,16 @@ func (pm *mesh) buckets(lv []float64) (start, bucket, crossing []int32, err erro
 	}
 	start[n] = off
 	bucket = make([]int32, off)
+	base := make([]int32, len(cross)) // compact number of each chunk's first crossing triangle
+	for w := 1; w < len(cross); w++ {
+		base[w] = base[w-1] + int32(len(cross[w-1]))
+	}
 	parallel(len(ranges), func(w int) {
 		fill := cnt[w]
-		for _, r := range cross[w] {
+		for j, r := range cross[w] {
+			c := base[w] + int32(j)
 			for i := r.lo; i < r.hi; i++ {
-				bucket[fill[i]] = r.t
+				bucket[fill[i]] = c
 				fill[i]++
 			}
 		}
@@ -297,7 +308,7 @@ type tracer struct {
 }
 
 func newTracer(pm *mesh) *tracer {
-	return &tracer{m: pm, mark: make([]uint32, len(pm.t)/3)}
+	return &tracer{m: pm, mark: make([]uint32, len(pm.ct)/3)}
 }
 
 // cross returns the point where half-edge h crosses level. Its two
@@ -306,7 +317,7 @@ func newTracer(pm *mesh) *tracer {
 // both half-edges of an edge give bit-identical points, and an upper vertex
 // exactly at the level is returned as itself.
 func (pm *mesh) cross(h int32, level float64) point {
-	p, q := pm.v[pm.t[h]], pm.v[pm.t[next(h)]]
+	p, q := pm.v[pm.ct[h]], pm.v[pm.ct[next(h)]]
 	if p.Z >= level {
 		p, q = q, p
 	}
@@ -317,11 +328,11 @@ func (pm *mesh) cross(h int32, level float64) point {
 	return point{geom.Vec2{X: p.X + float64(s*(q.X-p.X)), Y: p.Y + float64(s*(q.Y-p.Y))}, h}
 }
 
-// ends returns the two crossing half-edges of triangle t (which must cross
-// level) in the order that keeps the higher ground on the left for a
-// counter-clockwise triangle: the segment runs from in to out.
+// ends returns the two crossing half-edges of compact triangle t (which
+// must cross level) in the order that keeps the higher ground on the left
+// for a counter-clockwise triangle: the segment runs from in to out.
 func (pm *mesh) ends(t int32, level float64) (in, out int32) {
-	c := pm.t[3*t : 3*t+3]
+	c := pm.ct[3*t : 3*t+3]
 	s0, s1, s2 := pm.v[c[0]].Z >= level, pm.v[c[1]].Z >= level, pm.v[c[2]].Z >= level
 	var o int32 // the corner alone on its side
 	var up bool
@@ -348,14 +359,15 @@ func (pm *mesh) other(g int32, level float64) int32 {
 	h1 := next(g)
 	h2 := next(h1)
 	// Exactly two of the triangle's half-edges cross, g among them.
-	if (pm.v[pm.t[h1]].Z >= level) != (pm.v[pm.t[h2]].Z >= level) {
+	if (pm.v[pm.ct[h1]].Z >= level) != (pm.v[pm.ct[h2]].Z >= level) {
 		return h1
 	}
 	return h2
 }
 
-// level traces every contour through the triangles tris (each crossing the
-// level, ascending) and returns the cleaned, canonical lines in order.
+// level traces every contour through the compact triangles tris (each
+// crossing the level, ascending) and returns the cleaned, canonical lines in
+// order.
 func (tr *tracer) level(tris []int32, level float64, index bool, sm *smoother) []Line {
 	tr.stamp++
 	if tr.stamp == 0 { // wrapped: clear the marks
