@@ -6,6 +6,15 @@ import (
 	"github.com/dugout-estimating/dugout/internal/geom"
 )
 
+// Orient2DErrBound certifies a floating-point orientation (Shewchuk 1997,
+// ccwerrboundA): with detleft = (a.X−c.X)·(b.Y−c.Y) and detright =
+// (a.Y−c.Y)·(b.X−c.X), each rounded as written (unfused), the sign of
+// det = detleft − detright is that of the exact determinant whenever
+// |det| > Orient2DErrBound·(|detleft| + |detright|). Code that evaluates
+// many orientations in a loop may accept such results itself and call
+// [Orient2D] only for the others; Orient2D's first stage is this test.
+const Orient2DErrBound = ccwErrBoundA
+
 // Orient2D returns the orientation of the triangle abc: Positive when a, b, c
 // turn counter-clockwise (c lies to the left of the directed line a→b),
 // Negative when clockwise, Zero when the three points are collinear

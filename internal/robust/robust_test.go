@@ -347,6 +347,21 @@ func TestStages(t *testing.T) {
 	}
 }
 
+// TestOrient2DErrBound: results certified by the exported bound agree with
+// big.Rat on the near-collinear cases.
+func TestOrient2DErrBound(t *testing.T) {
+	r := rand.New(rand.NewPCG(testSeed(t), 5))
+	for range 20000 {
+		a, b, c := nearCollinear(r, 5e6, 1)
+		l := float64((a.X - c.X) * (b.Y - c.Y))
+		rr := float64((a.Y - c.Y) * (b.X - c.X))
+		det := l - rr
+		if math.Abs(det) > Orient2DErrBound*(math.Abs(l)+math.Abs(rr)) && signOf(det) != exactOrient(a, b, c) {
+			t.Fatalf("certified sign %v for %v %v %v, exact %v", signOf(det), a, b, c, exactOrient(a, b, c))
+		}
+	}
+}
+
 // TestTwoProduct checks the error-free product against big.Float with 106
 // bits (enough for any product of two float64 values): x + y must equal a·b
 // exactly. Under GOAMD64=v3, where the compiler may fuse, this also checks

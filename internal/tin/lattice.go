@@ -41,13 +41,10 @@ func (s *Surface) SampleLattice(x0, y0, h float64, nx, ny int, out []float64) {
 		a, b, c := m.Triangle(t)
 		pa, pb, pc := geom.Vec2{X: a.X, Y: a.Y}, geom.Vec2{X: b.X, Y: b.Y}, geom.Vec2{X: c.X, Y: c.Y}
 		ylo, yhi := min(a.Y, b.Y, c.Y), max(a.Y, b.Y, c.Y)
-		j0 := max(0, int(math.Floor((ylo-y0)*inv))-1)
-		j1 := min(ny-1, int(math.Ceil((yhi-y0)*inv))+1)
-		if j0 > j1 {
-			continue
-		}
+		j0 := clampIndex(math.Ceil((ylo-y0)*inv)-1, ny)
+		j1 := clampIndex(math.Floor((yhi-y0)*inv)+1, ny)
 		xlo, xhi := min(a.X, b.X, c.X), max(a.X, b.X, c.X)
-		if int(math.Ceil((xhi-x0)*inv))+1 < 0 || int(math.Floor((xlo-x0)*inv))-1 > nx-1 {
+		if (xhi-x0)*inv < -1 || (xlo-x0)*inv > float64(nx) {
 			continue
 		}
 		// Plane z = a.Z + gx(x−a.X) + gy(y−a.Y).
@@ -58,15 +55,14 @@ func (s *Surface) SampleLattice(x0, y0, h float64, nx, ny int, out []float64) {
 		gy := (float64(bx*cz) - float64(cx*bz)) / d
 		inside := func(i, j int) bool {
 			p := geom.Vec2{X: nodeX(i), Y: nodeY(j)}
-			return robust.Orient2D(pa, pb, p) >= 0 && robust.Orient2D(pb, pc, p) >= 0 && robust.Orient2D(pc, pa, p) >= 0
+			return leftOrOn(pa, pb, p) && leftOrOn(pb, pc, p) && leftOrOn(pc, pa, p)
 		}
 		for j := j0; j <= j1; j++ {
 			y := nodeY(j)
 			if y < ylo || y > yhi {
 				continue
 			}
-			// Floating-point x-range of the triangle on this row, then
-			// exact tests to settle its ends.
+			// Floating-point x-range [xl, xr] of the triangle on this row.
 			xl, xr := math.Inf(1), math.Inf(-1)
 			edge := func(p, q geom.Vec2) {
 				if (p.Y <= y && y <= q.Y) || (q.Y <= y && y <= p.Y) {
@@ -84,28 +80,72 @@ func (s *Surface) SampleLattice(x0, y0, h float64, nx, ny int, out []float64) {
 			if xl > xr {
 				continue
 			}
-			i0 := max(0, int(math.Floor((xl-x0)*inv))-1)
-			i1 := min(nx-1, int(math.Ceil((xr-x0)*inv))+1)
-			for i0 <= i1 && !inside(i0, j) {
-				i0++
+			// Nodes farther than band from both ends are inside (or
+			// outside) for certain; only nodes within band of an end are
+			// tested exactly. The nodes inside form one run (a row's nodes
+			// share one y and their x grows with i; the triangle is convex).
+			band := latticeBandEps * ((xhi - xlo) + math.Abs(xl) + math.Abs(xr))
+			first := clampIndex(math.Ceil((xl-band-x0)*inv)-1, nx)
+			for first < nx && nodeX(first) < xl-band {
+				first++
 			}
-			if i0 > i1 {
+			last := clampIndex(math.Floor((xr+band-x0)*inv)+1, nx)
+			for last >= 0 && nodeX(last) > xr+band {
+				last--
+			}
+			for first <= last && nodeX(first) <= xl+band && !inside(first, j) {
+				first++
+			}
+			for last >= first && nodeX(last) >= xr-band && !inside(last, j) {
+				last--
+			}
+			if first > last {
 				continue
-			}
-			for !inside(i1, j) {
-				i1--
-			}
-			for i0 > 0 && inside(i0-1, j) {
-				i0--
-			}
-			for i1 < nx-1 && inside(i1+1, j) {
-				i1++
 			}
 			row := out[j*nx : j*nx+nx]
 			zr := a.Z + gy*(y-a.Y)
-			for i := i0; i <= i1; i++ {
+			for i := first; i <= last; i++ {
 				row[i] = zr + gx*(nodeX(i)-a.X)
 			}
 		}
 	}
+}
+
+// latticeBandEps bounds, relative to the triangle's x-extent plus the
+// magnitudes of the row's interval ends, the floating-point error of a row's
+// x-interval in SampleLattice. Each end is an edge crossing
+// x = p.X + (y−p.Y)(q.X−p.X)/(q.Y−p.Y) with 0 <= (y−p.Y)/(q.Y−p.Y) <= 1:
+// five rounded operations on the quotient term give a relative error of at
+// most 5ε (ε = 2^-53) on a term of size <= |q.X−p.X|, and the final sum one
+// more ε of |x|, so |x − exact| <= 5.01ε|q.X−p.X| + 1.01ε|x|. A band of 16ε
+// times (extent + |xl| + |xr|) covers that with a factor of two to spare;
+// nodes inside the band are decided by the exact predicates.
+const latticeBandEps = 16.0 / (1 << 53)
+
+// clampIndex converts f to an index in [0, n), clamping (NaN gives 0).
+func clampIndex(f float64, n int) int {
+	switch {
+	case !(f > 0):
+		return 0
+	case f >= float64(n-1):
+		return n - 1
+	}
+	return int(f)
+}
+
+// leftOrOn reports whether p is on or to the left of the directed line
+// a→b, exactly: the floating-point determinant certified by
+// [robust.Orient2DErrBound], else [robust.Orient2D].
+func leftOrOn(a, b, p geom.Vec2) bool {
+	detleft := float64((a.X - p.X) * (b.Y - p.Y))
+	detright := float64((a.Y - p.Y) * (b.X - p.X))
+	det := detleft - detright
+	bound := robust.Orient2DErrBound * (math.Abs(detleft) + math.Abs(detright))
+	if det > bound {
+		return true
+	}
+	if -det > bound {
+		return false
+	}
+	return robust.Orient2D(a, b, p) >= 0
 }

@@ -18,11 +18,12 @@ var lidarSets = []struct {
 	unit     float64 // metres per file unit
 	rows     int
 	distinct int
+	tris     int // SciPy's triangle count, refbench ANCHORS.md §1 (centred; valid and Delaunay there)
 }{
-	{"autzen_trim_ground_ft.csv", units.Foot, 26107, 26107},
-	{"4_6_crop_ground_ftUS.csv", units.USSurveyFoot, 9003, 9003},
-	{"mvk-thin_ground_ftUS.csv", units.USSurveyFoot, 1693, 1693},
-	{"autzen_trim_all_ft.csv", units.Foot, 110000, 109993},
+	{"autzen_trim_ground_ft.csv", units.Foot, 26107, 26107, 52187},
+	{"4_6_crop_ground_ftUS.csv", units.USSurveyFoot, 9003, 9003, 17979},
+	{"mvk-thin_ground_ftUS.csv", units.USSurveyFoot, 1693, 1693, 3364},
+	{"autzen_trim_all_ft.csv", units.Foot, 110000, 109993, 219955},
 }
 
 // toLocal shifts world metres to a local frame at the rounded centre of
@@ -68,6 +69,9 @@ func TestLiDAR(t *testing.T) {
 			}
 			if h := hullBoundaryCount(xy); sum.Triangles != 2*len(xy)-2-h {
 				t.Errorf("triangles %d, want %d", sum.Triangles, 2*len(xy)-2-h)
+			}
+			if sum.Triangles != set.tris {
+				t.Errorf("triangles %d, want SciPy's %d", sum.Triangles, set.tris)
 			}
 			mean := make(map[geom.Vec2][2]float64)
 			for _, p := range pts {
