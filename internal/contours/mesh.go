@@ -56,6 +56,7 @@ func (e *MeshError) Unwrap() error { return e.Err }
 // half-edge of the neighbouring triangle across it ([mesh.twin]).
 type mesh struct {
 	v         []geom.Vec3
+	z         []float64 // z[i] = v[i].Z, dense for the passes that only compare elevations
 	t         []int32
 	nv        uint32
 	allFinite bool    // every vertex has finite coordinates
@@ -99,8 +100,9 @@ func newMesh(m geom.TriMesh, strict bool) (*mesh, error) {
 			detail: fmt.Sprintf("mesh too large: %d vertices, %d triangles", len(m.V), nt)}
 	}
 	pm := &mesh{v: m.V, t: m.T[:3*nt], nv: uint32(len(m.V)), allFinite: true,
-		zlo: math.Inf(1), zhi: math.Inf(-1)}
-	for _, p := range m.V {
+		z: make([]float64, len(m.V)), zlo: math.Inf(1), zhi: math.Inf(-1)}
+	for i, p := range m.V {
+		pm.z[i] = p.Z
 		if !p.IsFinite() {
 			pm.allFinite = false
 			continue
@@ -161,7 +163,7 @@ func (pm *mesh) listTriangles(strict bool) error {
 			}
 			c := pm.t[3*t : 3*t+3 : 3*t+3]
 			for _, i := range c {
-				z := pm.v[i].Z
+				z := pm.z[i]
 				if z < p.zlo {
 					p.zlo = z
 				}
@@ -244,7 +246,7 @@ func (pm *mesh) compact(tris []int32) {
 	parallel(len(ranges), func(w int) {
 		for c := ranges[w][0]; c < ranges[w][1]; c++ {
 			t := tris[c]
-			copy(pm.ct[3*c:3*c+3], pm.t[3*t:3*t+3])
+			pm.ct[3*c], pm.ct[3*c+1], pm.ct[3*c+2] = pm.t[3*t], pm.t[3*t+1], pm.t[3*t+2]
 		}
 	})
 }

@@ -170,7 +170,7 @@ func TraceLevel(m geom.TriMesh, level float64) []Line {
 // crosses reports whether triangle t has corners on both sides of level.
 func (pm *mesh) crosses(t int32, level float64) bool {
 	c := pm.t[3*t : 3*t+3]
-	a, b, d := pm.v[c[0]].Z >= level, pm.v[c[1]].Z >= level, pm.v[c[2]].Z >= level
+	a, b, d := pm.z[c[0]] >= level, pm.z[c[1]] >= level, pm.z[c[2]] >= level
 	return a != b || b != d
 }
 
@@ -218,14 +218,19 @@ func (pm *mesh) buckets(lv []float64) (start, bucket, crossing []int32, err erro
 	errs := make([]error, len(ranges))
 	parallel(len(ranges), func(w int) {
 		c := make([]int32, n)
-		var x []run
+		x := make([]run, 0, (ranges[w][1]-ranges[w][0])/4+16) // a guess; on a fine TIN about a quarter cross
 		for t := ranges[w][0]; t < ranges[w][1]; t++ {
-			if _, err := pm.checkTriangle(t, true); err != nil {
-				errs[w] = err
-				return
-			}
 			k := pm.t[3*t : 3*t+3 : 3*t+3]
-			z0, z1, z2 := pm.v[k[0]].Z, pm.v[k[1]].Z, pm.v[k[2]].Z
+			i0, i1, i2 := k[0], k[1], k[2]
+			// The common case inline; checkTriangle names the problem.
+			if uint32(i0) >= pm.nv || uint32(i1) >= pm.nv || uint32(i2) >= pm.nv ||
+				i0 == i1 || i1 == i2 || i0 == i2 || !pm.allFinite {
+				if _, err := pm.checkTriangle(t, true); err != nil {
+					errs[w] = err
+					return
+				}
+			}
+			z0, z1, z2 := pm.z[i0], pm.z[i1], pm.z[i2]
 			zmin, zmax := z0, z0
 			if z1 < zmin {
 				zmin = z1
@@ -254,6 +259,11 @@ func (pm *mesh) buckets(lv []float64) (start, bucket, crossing []int32, err erro
 			return nil, nil, nil, err
 		}
 	}
+	nc := 0
+	for _, x := range cross {
+		nc += len(x)
+	}
+	crossing = make([]int32, 0, nc)
 	for _, x := range cross {
 		for _, r := range x {
 			crossing = append(crossing, r.t)
@@ -333,7 +343,7 @@ func (pm *mesh) cross(h int32, level float64) point {
 // for a counter-clockwise triangle: the segment runs from in to out.
 func (pm *mesh) ends(t int32, level float64) (in, out int32) {
 	c := pm.ct[3*t : 3*t+3]
-	s0, s1, s2 := pm.v[c[0]].Z >= level, pm.v[c[1]].Z >= level, pm.v[c[2]].Z >= level
+	s0, s1, s2 := pm.z[c[0]] >= level, pm.z[c[1]] >= level, pm.z[c[2]] >= level
 	var o int32 // the corner alone on its side
 	var up bool
 	switch {
@@ -359,7 +369,7 @@ func (pm *mesh) other(g int32, level float64) int32 {
 	h1 := next(g)
 	h2 := next(h1)
 	// Exactly two of the triangle's half-edges cross, g among them.
-	if (pm.v[pm.ct[h1]].Z >= level) != (pm.v[pm.ct[h2]].Z >= level) {
+	if (pm.z[pm.ct[h1]] >= level) != (pm.z[pm.ct[h2]] >= level) {
 		return h1
 	}
 	return h2
