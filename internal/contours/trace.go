@@ -183,28 +183,7 @@ func (pm *mesh) crosses(t int32, level float64) bool {
 // of levels, those in (zmin, zmax] of its corners.
 func (pm *mesh) buckets(lv []float64) (start, bucket, crossing []int32, err error) {
 	n := len(lv)
-	// upper returns the number of levels <= z, from an estimate on the
-	// (nearly) uniform spacing corrected by exact comparisons.
-	var inv float64
-	if n > 1 && lv[n-1] > lv[0] {
-		inv = float64(n-1) / (lv[n-1] - lv[0])
-	}
-	upper := func(z float64) int {
-		if z < lv[0] {
-			return 0
-		}
-		if z >= lv[n-1] {
-			return n
-		}
-		e := max(0, min(n, int((z-lv[0])*inv)+1))
-		for e > 0 && lv[e-1] > z {
-			e--
-		}
-		for e < n && lv[e] <= z {
-			e++
-		}
-		return e
-	}
+	li := newLevelIndex(lv)
 	// In parallel over chunks of triangles: check each triangle, find its
 	// run of levels and count it; turn the counts into each chunk's write
 	// offsets; then fill, so that every bucket lists its triangles in
@@ -242,11 +221,11 @@ func (pm *mesh) buckets(lv []float64) (start, bucket, crossing []int32, err erro
 			} else if z2 > zmax {
 				zmax = z2
 			}
-			lo := upper(zmin)
+			lo := li.upper(zmin)
 			if lo == n || lv[lo] > zmax {
 				continue // no level in (zmin, zmax]
 			}
-			hi := upper(zmax)
+			hi := li.upper(zmax)
 			x = append(x, run{int32(t), int32(lo), int32(hi)})
 			for i := lo; i < hi; i++ {
 				c[i]++
@@ -296,6 +275,42 @@ func (pm *mesh) buckets(lv []float64) (start, bucket, crossing []int32, err erro
 		}
 	})
 	return start, bucket, crossing, nil
+}
+
+// levelIndex finds where an elevation falls among ascending levels.
+type levelIndex struct {
+	lv  []float64
+	l0  float64 // lv[0]
+	inv float64 // 1 / mean spacing, 0 for a single level
+}
+
+func newLevelIndex(lv []float64) levelIndex {
+	li := levelIndex{lv: lv, l0: lv[0]}
+	if n := len(lv); n > 1 && lv[n-1] > lv[0] {
+		li.inv = float64(n-1) / (lv[n-1] - lv[0])
+	}
+	return li
+}
+
+// upper returns the number of levels <= z: an estimate on the (nearly)
+// uniform spacing, corrected by exact comparisons with the level values.
+func (li levelIndex) upper(z float64) int {
+	lv := li.lv
+	n := len(lv)
+	if !(z >= li.l0) {
+		return 0
+	}
+	e := n
+	if f := (z - li.l0) * li.inv; f < float64(n) {
+		e = int(f) + 1
+	}
+	for e > n || (e > 0 && lv[e-1] > z) {
+		e--
+	}
+	for e < n && lv[e] <= z {
+		e++
+	}
+	return e
 }
 
 // point is a traced contour point: its position and the half-edge it lies
