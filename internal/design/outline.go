@@ -75,8 +75,8 @@ func (o Outline) Zones() ([]Zone, error) {
 		case math.IsNaN(d) || d <= prevD || d > MaxDepthM:
 			return nil, fmt.Errorf("%w: outline: %s depth %g m must be deeper than the step above (%g m) and at most %g m",
 				ErrZone, name, d, prevD, MaxDepthM)
-		case math.IsNaN(s) || s < 0 || s > MaxWallSlope:
-			return nil, fmt.Errorf("%w: outline: %s wall slope %g is outside 0 to %g", ErrZone, name, s, MaxWallSlope)
+		case math.IsNaN(s) || s < 0 || s > MaxWallSlope || s > 0 && s < MinWallSlope:
+			return nil, fmt.Errorf("%w: outline: %s wall slope %g must be 0 (vertical) or between %g and %g", ErrZone, name, s, MinWallSlope, MaxWallSlope)
 		}
 		if k < len(o.Shelves) {
 			if w := o.Shelves[k].WidthM; math.IsNaN(w) || math.IsInf(w, 0) || w < 0 {

@@ -38,6 +38,10 @@ const (
 	// MaxWallSlope is the flattest wall accepted, in horizontal metres per
 	// metre of rise.
 	MaxWallSlope = 20.0
+	// MinWallSlope is the steepest sloped wall accepted, 0.05 (5 cm of run
+	// per metre of rise); anything steeper is a vertical wall (slope 0) for
+	// every practical purpose, and a lattice could not resolve it.
+	MinWallSlope = 0.05
 )
 
 // Zone is one depth zone of a pond: a floor outline at a fixed depth below
@@ -61,7 +65,8 @@ type Zone struct {
 // Validate reports the first problem that keeps z from being built: a
 // non-finite vertex, fewer than 3 distinct vertices, zero area, edges that
 // cross or touch other than at their shared vertex, a depth outside
-// [0, MaxDepthM], a slope outside [0, MaxWallSlope], an unknown corner
+// [0, MaxDepthM], a slope outside [0, MaxWallSlope] or between 0 and
+// MinWallSlope, an unknown corner
 // option, or sharp corners on a concave outline. Errors wrap [ErrZone].
 func (z Zone) Validate() error {
 	if _, err := cleanRing(z.Ring); err != nil {
@@ -72,6 +77,9 @@ func (z Zone) Validate() error {
 	}
 	if math.IsNaN(z.WallSlope) || z.WallSlope < 0 || z.WallSlope > MaxWallSlope {
 		return fmt.Errorf("%w: wall slope %g (horizontal per vertical) is outside 0 to %g", ErrZone, z.WallSlope, MaxWallSlope)
+	}
+	if z.WallSlope > 0 && z.WallSlope < MinWallSlope {
+		return fmt.Errorf("%w: wall slope %g is steeper than %g: use 0 for a vertical wall", ErrZone, z.WallSlope, MinWallSlope)
 	}
 	switch z.Corners {
 	case Round:
