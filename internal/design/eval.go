@@ -198,25 +198,43 @@ func (fd *field) evaluate(w float64, g, d []float64, b berm) volumes {
 // surface area, which do not depend on W.
 func (fd *field) water() (vol, area float64) {
 	l := fd.lat
-	nb := (l.NY - 1 + bandRows - 1) / bandRows
+	wb := fd.zs.waterBox()
+	ci0 := max(0, int(math.Floor((wb.Min.X-l.X0)/l.H))-1)
+	ci1 := min(l.NX-2, int(math.Ceil((wb.Max.X-l.X0)/l.H))+1)
+	cj0 := max(0, int(math.Floor((wb.Min.Y-l.Y0)/l.H))-1)
+	cj1 := min(l.NY-2, int(math.Ceil((wb.Max.Y-l.Y0)/l.H))+1)
+	if ci0 > ci1 || cj0 > cj1 {
+		return 0, 0
+	}
+	nrows := cj1 - cj0 + 1
+	nb := (nrows + bandRows - 1) / bandRows
 	vs, as := make([]geom.Sum, nb), make([]geom.Sum, nb)
 	ca := l.CellArea()
-	neg := func(e float64) float64 { return -min(e, infCap) }
-	forBands(l.NY-1, func(band, j0, j1 int) {
+	neg := func(e float64) float64 {
+		if e > infCap {
+			return -infCap
+		}
+		return -e
+	}
+	forBands(nrows, func(band, r0, r1 int) {
 		var buf clipBuf
+		j0, j1 := cj0+r0, cj0+r1
 		sp := fd.splitsIn(j0, j1)
 		var f, fin [4]float64
 		for cj := j0; cj < j1; cj++ {
-			for ci := 0; ci+1 < l.NX; ci++ {
+			var rv, ra float64
+			for ci := ci0; ci <= ci1; ci++ {
 				c := ci + cj*l.NX
+				for len(sp) > 0 && sp[0].cell < c {
+					sp = sp[1:]
+				}
 				nd := fd.cellNodes(c)
 				any := false
 				for m, k := range nd {
 					f[m] = neg(fd.e[k])
 					any = any || f[m] > 0
 				}
-				isSplit := len(sp) > 0 && sp[0].cell == c
-				if isSplit {
+				if len(sp) > 0 && sp[0].cell == c {
 					x := &sp[0]
 					sp = sp[1:]
 					for m := range nd {
@@ -226,8 +244,8 @@ func (fd *field) water() (vol, area float64) {
 						p0, _, a0, _ := triParts(t, ca, &f)
 						p1, _, a1, _ := polyParts(t, ca, &f, x.part[t], &buf)
 						p2, _, a2, _ := polyParts(t, ca, &fin, x.part[t], &buf)
-						vs[band].Add(p0 - p1 + p2)
-						as[band].Add(a0 - a1 + a2)
+						rv += p0 - p1 + p2
+						ra += a0 - a1 + a2
 					}
 					continue
 				}
@@ -236,10 +254,12 @@ func (fd *field) water() (vol, area float64) {
 				}
 				for t := range 2 {
 					p, _, a, _ := triParts(t, ca, &f)
-					vs[band].Add(p)
-					as[band].Add(a)
+					rv += p
+					ra += a
 				}
 			}
+			vs[band].Add(rv)
+			as[band].Add(ra)
 		}
 	})
 	var v, a geom.Sum

@@ -91,7 +91,7 @@ type field struct {
 	crossed [][]int32
 
 	floorRows []rowIndex // per zone
-	rimRows   []rowIndex // per sharp zone (nil otherwise)
+	rimRows   []rowIndex // per sharp zone (empty otherwise)
 }
 
 // leafSize is the largest tile side, in nodes, whose nodes are evaluated
@@ -111,9 +111,8 @@ func newField(zs *zoneSet, l grid.Lattice) *field {
 	fd.rimRows = make([]rowIndex, len(zs.z))
 	for i := range zs.z {
 		z := &zs.z[i]
-		if z.kind != kindSharp {
-			fd.floorRows[i] = newRowIndex(l, z.floor)
-		} else {
+		fd.floorRows[i] = newRowIndex(l, z.floor)
+		if z.kind == kindSharp {
 			fd.rimRows[i] = newRowIndex(l, z.rim)
 		}
 	}
@@ -392,7 +391,9 @@ func (w *tileWorker) leaf(i0, i1, j0, j1 int, zs []zc) {
 					if c.needE {
 						mm := 0.0
 						for _, k := range c.fc {
-							mm = max(mm, z.floor.nx[k]*x+z.floor.ny[k]*y-z.floor.nc[k])
+							if v := z.floor.nx[k]*x + z.floor.ny[k]*y - z.floor.nc[k]; v > mm {
+								mm = v
+							}
 						}
 						ez = -z.depth + mm/z.slope
 					}
@@ -401,21 +402,14 @@ func (w *tileWorker) leaf(i0, i1, j0, j1 int, zs []zc) {
 						if c.rin == 1 || (c.rin == 0 && par[m]) {
 							rz = 0
 						} else {
-							d2 := inf
-							for _, k := range c.rc {
-								d2 = min(d2, z.rim.segs[k].dist2(x, y))
-							}
-							rz = math.Sqrt(d2)
+							rz = math.Sqrt(minDist2(z.rim.segs, c.rc, x, y))
 						}
 					}
 				case kindVertical:
 					if c.fin == 1 || (c.fin == 0 && par[m]) {
 						ez, rz = -z.depth, 0
 					} else {
-						d2 := inf
-						for _, k := range c.fc {
-							d2 = min(d2, z.floor.segs[k].dist2(x, y))
-						}
+						d2 := minDist2(z.floor.segs, c.fc, x, y)
 						if d2 == 0 {
 							ez, rz = -z.depth, 0
 						} else {
@@ -425,13 +419,12 @@ func (w *tileWorker) leaf(i0, i1, j0, j1 int, zs []zc) {
 				default:
 					d := 0.0
 					if !(c.fin == 1 || (c.fin == 0 && par[m])) {
-						d2 := inf
-						for _, k := range c.fc {
-							d2 = min(d2, z.floor.segs[k].dist2(x, y))
-						}
-						d = math.Sqrt(d2)
+						d = math.Sqrt(minDist2(z.floor.segs, c.fc, x, y))
 					}
-					ez, rz = -z.depth+d/z.slope, max(0, d-z.rimR)
+					ez, rz = -z.depth+d/z.slope, 0
+					if d > z.rimR {
+						rz = d - z.rimR
+					}
 				}
 				if c.needE && ez < e {
 					e, own = ez, c.zone
@@ -448,6 +441,19 @@ func (w *tileWorker) leaf(i0, i1, j0, j1 int, zs []zc) {
 			fd.own[k] = own
 		}
 	}
+}
+
+// minDist2 returns the least squared distance from (x, y) to the
+// candidate segments (+Inf for none). Plain comparisons: the builtin min
+// pays for NaN handling that distances never need.
+func minDist2(segs []segment, cand []int32, x, y float64) float64 {
+	best := math.Inf(1)
+	for _, k := range cand {
+		if d := segs[k].dist2(x, y); d < best {
+			best = d
+		}
+	}
+	return best
 }
 
 // volOwner returns the zone that node k's earthwork is booked to: the zone

@@ -60,10 +60,28 @@ func (fd *field) floorAreas() []float64 {
 		cj1 := min(l.NY-2, int(math.Floor((bb.Max.Y-l.Y0)/l.H)))
 		var sub geom.Sum
 		var f, fo, fi [4]float64
+		rows := &fd.floorRows[i]
+		crossed := fd.crossed[i]
 		for cj := cj0; cj <= cj1; cj++ {
 			sp := fd.splitsIn(cj, cj+1)
+			// This row's crossed cells, and the row's polygon crossings
+			// for the inside test of the others.
+			lo, _ := slices.BinarySearch(crossed, int32(cj*l.NX+ci0))
+			cr := crossed[lo:]
+			xs := rows.row(cj)
+			xp := 0
+			inside := false
 			for ci := ci0; ci <= ci1; ci++ {
 				c := ci + cj*l.NX
+				x0 := l.X0 + float64(ci)*l.H
+				for xp < len(xs) && xs[xp] <= x0 {
+					inside = !inside
+					xp++
+				}
+				for len(cr) > 0 && int(cr[0]) < c {
+					cr = cr[1:]
+				}
+				crossing := len(cr) > 0 && int(cr[0]) == c
 				nd := fd.cellNodes(c)
 				var x *split
 				for len(sp) > 0 && sp[0].cell < c {
@@ -76,11 +94,7 @@ func (fd *field) floorAreas() []float64 {
 				for _, k := range nd {
 					deeper = deeper || fd.e[k]+z.depth < 0
 				}
-				if !deeper {
-					continue
-				}
-				_, crossing := slices.BinarySearch(fd.crossed[i], int32(c))
-				if !crossing && !z.floor.contains(l.Node(ci, cj)) {
+				if !deeper || !crossing && !inside {
 					continue
 				}
 				for m, k := range nd {

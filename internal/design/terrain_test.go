@@ -4,6 +4,7 @@ import (
 	"math"
 
 	"github.com/dugout-estimating/dugout/internal/geom"
+	"github.com/dugout-estimating/dugout/internal/grid"
 )
 
 // funcTerrain is a stand-in for the TIN: an analytic surface over a box.
@@ -51,3 +52,5 @@ func ring(c ...float64) geom.Ring {
 	}
 	return r
 }
+
+func gridLattice(b geom.Box, h float64) (grid.Lattice, error) { return grid.NewLattice(b, h) }

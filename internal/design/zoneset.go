@@ -151,3 +151,21 @@ func (zs *zoneSet) workBox(w, gmin, gmax, c, bs float64) geom.Box {
 	}
 	return b
 }
+
+// waterBox returns a box holding the water, {e ≤ 0}: each floor grown by
+// its wall's run over its depth.
+func (zs *zoneSet) waterBox() geom.Box {
+	b := geom.EmptyBox()
+	for i := range zs.z {
+		z := &zs.z[i]
+		switch z.kind {
+		case kindRound:
+			b = b.Union(z.floor.box.Expand(z.slope * z.depth))
+		case kindSharp:
+			b = b.Union(newPolygon(z.floor.mitreOffset(z.slope * z.depth)).box)
+		default:
+			b = b.Union(z.floor.box)
+		}
+	}
+	return b
+}
