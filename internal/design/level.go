@@ -10,7 +10,7 @@ import (
 
 // rimCells is the number of lattice cells across the rim set used to
 // trace the rim line for LevelAuto.
-const rimCells = 512
+const rimCells = 256
 
 // autoLevel returns the water level whose rim sits at the lowest existing
 // ground along the rim line {e = freeboard}, which does not depend on W.

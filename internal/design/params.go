@@ -102,7 +102,9 @@ type ZoneVolume struct {
 // Surface is a design laid on existing ground: the surfaces on a lattice
 // over the work area and the quantities computed from them.
 type Surface struct {
-	Params  Params
+	// Params are the parameters used, with defaults filled in.
+	Params Params
+	// Lattice is the lattice over the work area.
 	Lattice grid.Lattice
 	// G, E and D are existing ground, the bowl and the finished grade at
 	// the lattice nodes (m). G is NaN off the surveyed surface; E is +Inf
