@@ -34,7 +34,7 @@ func (b *builder) autoLevel() (float64, error) {
 	}
 	fd := newField(zs, lat)
 	f := zs.freeboard
-	lowest, at := math.Inf(1), geom.Vec2{}
+	lowest := math.Inf(1)
 	off := geom.EmptyBox()
 	visit := func(p geom.Vec2) {
 		z, ok := b.g.Elevation(p.X, p.Y)
@@ -42,9 +42,7 @@ func (b *builder) autoLevel() (float64, error) {
 			off = off.Extend(p)
 			return
 		}
-		if z < lowest {
-			lowest, at = z, p
-		}
+		lowest = min(lowest, z)
 	}
 	vertical := func(k int) bool {
 		o := fd.own[k]
@@ -93,7 +91,6 @@ func (b *builder) autoLevel() (float64, error) {
 	if math.IsInf(lowest, 1) {
 		return 0, fmt.Errorf("%w: auto water level: no rim line found", ErrParams)
 	}
-	_ = at
 	w := lowest - f
 	b.autoW = &w
 	return w, nil

@@ -4,9 +4,12 @@ import (
 	"encoding/json"
 	"math"
 	"os"
+	"os/exec"
+	"path/filepath"
 	"testing"
 
 	"github.com/dugout-estimating/dugout/internal/geom"
+	"github.com/dugout-estimating/dugout/internal/reftest"
 )
 
 // The refbench site (testdata/refbench_site.json, a copy of
@@ -172,5 +175,40 @@ func TestBuild_RefbenchRound(t *testing.T) {
 			}
 			t.Logf("cut %.6f ref %.6f diff %.2g tol %.2g cell %g", sf.CutM3, want, sf.CutM3-want, tol, sf.CellM)
 		})
+	}
+}
+
+// TestBuild_RefbenchRoundLive reruns the reference bench's round-corner
+// grid for the garden pond on the full terrain
+// (../shared/refbench/ref_volume.py --corners round) and compares.
+func TestBuild_RefbenchRoundLive(t *testing.T) {
+	if testing.Short() {
+		t.Skip("runs the reference bench")
+	}
+	shared := reftest.SharedDir(t)
+	py := reftest.Python(t, "numpy", "scipy", "shapely")
+	out := filepath.Join(t.TempDir(), "round.json")
+	cmd := exec.Command(py, filepath.Join(shared, "refbench", "ref_volume.py"), "--design", "garden_pond", "--terrain", "full",
+		"--corners", "round", "--h", "0.02,0.01", "--h-fine-tin", "", "--json", out)
+	if b, err := cmd.CombinedOutput(); err != nil {
+		t.Fatalf("ref_volume.py: %v: %s", err, b)
+	}
+	b, err := os.ReadFile(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rows []struct {
+		Grid struct {
+			Levels []struct{ Cut float64 }
+		}
+	}
+	if err := json.Unmarshal(b, &rows); err != nil || len(rows) != 1 || len(rows[0].Grid.Levels) != 2 {
+		t.Fatalf("ref_volume.py JSON: %v %s", err, b)
+	}
+	lv := rows[0].Grid.Levels
+	want, refErr := lv[1].Cut, math.Abs(lv[1].Cut-lv[0].Cut)
+	sf := loadRefSite(t).pit(t, "garden_pond", "full", Round)
+	if tol := max(sf.RefineChange, refineFloor)*sf.CutM3 + refErr; math.Abs(sf.CutM3-want) > tol {
+		t.Errorf("cut = %.6f m³, ref_volume.py --corners round %.6f ± %.2g", sf.CutM3, want, tol)
 	}
 }

@@ -62,16 +62,16 @@ func (s *Surface) BowlMesh() geom.TriMesh {
 		return s.E[k]
 	}
 	var m geom.TriMesh
-	nodeV := map[int]int32{}
-	clipV := map[[2]int]int32{}
+	nodeV := make([]int32, l.Len()) // vertex index + 1, 0 for none yet
+	clipV := map[[2]int]int32{}     // clip points, by lattice edge
 	vert := func(k int) int32 {
-		if v, ok := nodeV[k]; ok {
-			return v
+		if v := nodeV[k]; v > 0 {
+			return v - 1
 		}
 		p := l.Node(k%l.NX, k/l.NX)
 		v := int32(len(m.V))
 		m.V = append(m.V, geom.Vec3{X: p.X, Y: p.Y, Z: z(k)})
-		nodeV[k] = v
+		nodeV[k] = v + 1
 		return v
 	}
 	cut := func(a, b int) int32 {
