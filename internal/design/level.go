@@ -86,7 +86,8 @@ func (b *builder) autoLevel() (float64, error) {
 		}
 	}
 	if !off.IsEmpty() {
-		return 0, fmt.Errorf("auto water level: %w", &OffSurveyError{Box: off, InBowl: true, BeyondM: math.NaN()})
+		return 0, fmt.Errorf("%w: auto water level: the rim line leaves the surveyed surface within x %.2f to %.2f m, y %.2f to %.2f m (local frame); survey farther out or move the pond",
+			ErrOffSurvey, off.Min.X, off.Max.X, off.Min.Y, off.Max.Y)
 	}
 	if math.IsInf(lowest, 1) {
 		return 0, fmt.Errorf("%w: auto water level: no rim line found", ErrParams)

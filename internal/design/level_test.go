@@ -3,6 +3,7 @@ package design
 import (
 	"errors"
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/dugout-estimating/dugout/internal/geom"
@@ -118,5 +119,15 @@ func TestBuild_OffSurvey(t *testing.T) {
 	_, err = Build(g, Params{Zones: []Zone{{Ring: rect(1, -1, 4, 1), DepthM: 0.5, WallSlope: 1}}, WaterLevelM: 10})
 	if !errors.As(err, &oe) || !oe.InBowl || oe.BeyondM < 1 {
 		t.Fatalf("error = %v (%+v), want the bowl itself off the survey by more than 1 m", err, oe)
+	}
+}
+
+func TestBuild_AutoLevelOffSurvey(t *testing.T) {
+	// The rim line, 1 m out from the zone (2:1 wall, 0.4 m depth and
+	// 0.1 m freeboard), crosses the survey's edge at x = 3.
+	g := funcTerrain{f: func(x, y float64) float64 { return 10 + 0.01*x }, box: geom.Box{Min: geom.Vec2{X: -10, Y: -10}, Max: geom.Vec2{X: 3, Y: 10}}}
+	_, err := Build(g, Params{Zones: []Zone{{Ring: rect(-1, -1, 2.5, 1), DepthM: 0.4, WallSlope: 2}}, Level: LevelAuto, FreeboardM: 0.1})
+	if !errors.Is(err, ErrOffSurvey) || !strings.Contains(err.Error(), "rim line leaves the surveyed surface") {
+		t.Fatalf("error = %v, want the rim line off the survey", err)
 	}
 }
