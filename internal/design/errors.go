@@ -34,6 +34,7 @@ type ZoneError struct {
 	Err   error
 }
 
+// Error returns the zone's index and name with the problem.
 func (e *ZoneError) Error() string {
 	if e.Name != "" {
 		return fmt.Sprintf("zone %d %q: %v", e.Index, e.Name, e.Err)
@@ -52,6 +53,7 @@ type FeatureError struct {
 	Err     error
 }
 
+// Error returns the file, feature index and name with the problem.
 func (e *FeatureError) Error() string {
 	loc := fmt.Sprintf("%s: features[%d]", e.File, e.Feature)
 	if e.Name != "" {
@@ -76,6 +78,7 @@ type OffSurveyError struct {
 	InBowl bool
 }
 
+// Error says what needs ground, how far beyond the survey and where.
 func (e *OffSurveyError) Error() string {
 	what := "the walls or berm"
 	if e.InBowl {

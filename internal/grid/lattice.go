@@ -28,6 +28,7 @@ type SizeError struct {
 	Limit  int     // the node limit
 }
 
+// Error returns the node counts, the cell and the limit.
 func (e *SizeError) Error() string {
 	return fmt.Sprintf("grid: a lattice of %d × %d nodes at %g m cells exceeds the limit of %d nodes",
 		e.NX, e.NY, e.H, e.Limit)
