@@ -53,8 +53,13 @@ func Build(g Terrain, p Params) (*Surface, error) {
 		cur, err = b.level(h, w, prev)
 		if err != nil {
 			if errors.Is(err, grid.ErrTooLarge) && !fixed && prev != nil {
-				b.warnf("the lattice could not be refined past %g m cells within %d nodes: halving last changed cut or fill by %.2g %%, above the %.1g %% aimed at",
-					prev.h, grid.MaxNodes, 100*prev.change, 100*refineTarget)
+				if k == 1 {
+					prev.change = math.NaN()
+					b.warnf("the lattice could not be refined past %g m cells within %d nodes, so its accuracy is unchecked", prev.h, grid.MaxNodes)
+				} else {
+					b.warnf("the lattice could not be refined past %g m cells within %d nodes: halving last changed cut or fill by %.2g %%, short of the %.1g %% aimed at",
+						prev.h, grid.MaxNodes, 100*prev.change, 100*refineTarget)
+				}
 				cur = prev
 				break
 			}

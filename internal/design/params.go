@@ -128,7 +128,8 @@ type Surface struct {
 	// of cut and fill between the lattice of cell 2·CellM and this one
 	// (each measured against itself, or against 1 % of cut + fill when
 	// smaller). The error left is about a third of it (the error is of
-	// second order in the cell).
+	// second order in the cell). It is NaN when not even one halving fit
+	// within grid.MaxNodes (a warning says so).
 	CellM, RefineChange float64
 	Warnings            []string
 
