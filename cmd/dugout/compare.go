@@ -81,7 +81,7 @@ func compareCmdWith(app *App, runF func(context.Context, *compareOptions) error)
 	fl := cmd.Flags()
 	fl.StringVar(&opts.beforeUnits, "before-units", "", "units of BEFORE when they differ from --units: {m|ft|usft}")
 	fl.StringVar(&opts.afterUnits, "after-units", "", "units of AFTER when they differ from --units: {m|ft|usft}")
-	fl.StringVar(&opts.boundary, "boundary", "", "GeoJSON polygon to measure within (read in --units)")
+	fl.StringVar(&opts.boundary, "boundary", "", "GeoJSON polygon to measure within (read in --units if given, else in BEFORE's units)")
 	return cmd
 }
 
@@ -139,7 +139,11 @@ func runCompare(ctx context.Context, opts *compareOptions) error {
 	after.shift(before.frame)
 	var rings []geom.Ring
 	if opts.boundary != "" {
-		if rings, err = readCompareBoundary(opts.boundary, opt, before); err != nil {
+		bo := opt
+		if !opts.unitsSet {
+			bo.Units = before.units
+		}
+		if rings, err = readCompareBoundary(opts.boundary, bo, before); err != nil {
 			return err
 		}
 	}

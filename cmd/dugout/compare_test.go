@@ -125,6 +125,14 @@ func TestCompare_Feet(t *testing.T) {
 	if c := num(t, doc, "cut_m3"); !close(c, 100*units.CubicFoot, relTol) || doc["units"] != "ft" {
 		t.Errorf("cut %v m³ (units %v), want 100 ft³ = %v m³", c, doc["units"], 100*units.CubicFoot)
 	}
+	// Without --units, a boundary is read in BEFORE's units: a quarter of
+	// the square in feet holds a quarter of the pit, 25 ft³.
+	quarter := writeFile(t, dir, "quarter.geojson", `{"type":"FeatureCollection","features":[{"type":"Feature","properties":{},
+"geometry":{"type":"Polygon","coordinates":[[[1005,2005],[1010,2005],[1010,2010],[1005,2010],[1005,2005]]]}}]}`)
+	doc = runJSON(t, newCompareCmd, "--before-units", "ft", "--after-units", "ft", "--crs", "local", flat, pit, "--boundary", quarter)
+	if c := num(t, doc, "cut_m3"); !close(c, 25*units.CubicFoot, relTol) {
+		t.Errorf("quarter in feet: cut %v m³, want 25 ft³ = %v m³", c, 25*units.CubicFoot)
+	}
 }
 
 func TestCompare_MixedUnitsAndLandXML(t *testing.T) {
