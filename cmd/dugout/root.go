@@ -49,7 +49,10 @@ func newRootCmd(app *App) *cobra.Command {
 
 	root.AddCommand(
 		newPointsCmd(app),
+		newSurfaceCmd(app),
 		newEstimateCmd(app),
+		newCompareCmd(app),
+		newContoursCmd(app),
 		newVersionCmd(app),
 		newExitCodesTopic(),
 	)

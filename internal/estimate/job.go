@@ -131,6 +131,9 @@ func FromSite(s *sitefile.Site) (*Job, error) {
 			return nil, fmt.Errorf("%w: survey.duplicates: %w", ErrJob, err)
 		}
 	}
+	// Shots within the survey's duplicate distance (1 cm) are one position
+	// on the ground: merge them, as `dugout surface` does.
+	j.TIN.MergeTolM = survey.DefaultDupTolM
 	if j.TIN.MaxEdgeM, err = length(s.Survey.MaxEdge, "survey.max_edge", 0, ""); err != nil {
 		return nil, err
 	}
