@@ -7,9 +7,11 @@
 // Coordinate model: points are [geom.Vec2] in any planar frame (the local
 // working frame, metres, in practice), given as float64 values that are taken
 // to be exact. The sign returned is the sign of the exact real-number
-// determinant of those inputs, whatever their magnitude, as long as no
-// intermediate value overflows or underflows (coordinates between about
-// 1e-70 and 1e70 in magnitude, or zero).
+// determinant of those inputs as long as no intermediate product overflows
+// or underflows: every coordinate must be zero or between 1e-50 and 1e50 in
+// magnitude. (Then coordinate differences are zero or at least about 1e-66,
+// so the degree-four products of differences and their rounding errors stay
+// above the smallest normal number, 2.2e-308, and below overflow.)
 //
 // The method is Shewchuk's: J. R. Shewchuk, "Adaptive Precision
 // Floating-Point Arithmetic and Fast Robust Geometric Predicates", Discrete &

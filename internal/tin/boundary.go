@@ -25,8 +25,8 @@ type ring struct {
 func checkRing(ri int, in geom.Ring) (ring, error) {
 	var r ring
 	for i, p := range in {
-		if !p.IsFinite() {
-			return r, &BoundaryError{Ring: ri, EdgeA: -1, EdgeB: -1, Msg: "vertex " + strconv.Itoa(i) + " is not finite", Err: ErrBoundary}
+		if !p.IsFinite() || !coordOK(p.X) || !coordOK(p.Y) {
+			return r, &BoundaryError{Ring: ri, EdgeA: -1, EdgeB: -1, Msg: "vertex " + strconv.Itoa(i) + " is not finite or outside [MinCoordM, MaxCoordM]", Err: ErrBoundary}
 		}
 		if len(r.pts) > 0 && r.pts[len(r.pts)-1] == p {
 			continue
@@ -141,36 +141,6 @@ func (b *builder) hullEdges() [][2]int32 {
 	return out
 }
 
-// clipToHull returns the part of segment pq inside the convex hull given by
-// its counter-clockwise edges, as parameters 0 <= t0 < t1 <= 1 along pq, or
-// ok=false when none of it (more than a point) is inside. Which side of each
-// hull line an end lies on is decided exactly; the crossing parameters are
-// computed in floating point.
-func (b *builder) clipToHull(p, q geom.Vec2, hull [][2]int32) (t0, t1 float64, ok bool) {
-	t0, t1 = 0, 1
-	for _, h := range hull {
-		e0, e1 := b.xy(h[0]), b.xy(h[1])
-		sp := robust.Orient2D(e0, e1, p)
-		sq := robust.Orient2D(e0, e1, q)
-		if sp >= 0 && sq >= 0 {
-			continue
-		}
-		if sp < 0 && sq < 0 {
-			return 0, 0, false
-		}
-		d := e1.Sub(e0)
-		fp := d.Cross(p.Sub(e0))
-		fq := d.Cross(q.Sub(e0))
-		t := fp / (fp - fq)
-		if sp < 0 {
-			t0 = math.Max(t0, t)
-		} else {
-			t1 = math.Min(t1, t)
-		}
-	}
-	return t0, t1, t0 < t1
-}
-
 // zAt returns the elevation of the triangulation at p: interpolated in the
 // triangle containing p, or, outside the hull, along the nearest point of
 // the hull edge the walk ended at.
@@ -207,38 +177,28 @@ func planeZ(a, b, c geom.Vec3, p geom.Vec2) float64 {
 	return a.Z + lb*(b.Z-a.Z) + lc*(c.Z-a.Z)
 }
 
-// insertBoundaries inserts the parts of the rings inside the hull as
-// constraints: their vertices (and the points where they cross the hull)
-// become vertices with elevations interpolated from the surface.
-func insertBoundaries(b *builder, c *constrainer, rings []ring) error {
+// insertBoundaries inserts the rings as constraints and returns the hull
+// edges of the surveyed area. First the current hull edges are frozen as
+// constraints (kind flagHull), so that ring vertices outside the hull do
+// not change the triangulation inside it; then the ring vertices are
+// inserted (elevations interpolated from the surface, or along the nearest
+// hull edge outside it) and the ring edges constrained. Where a ring edge
+// crosses the hull, the crossing becomes a vertex shared by both
+// constraints, so the boundary and the hull form closed chains of
+// constrained edges and every region between them is sealed.
+func insertBoundaries(b *builder, c *constrainer, rings []ring) ([][2]int32, error) {
 	hull := b.hullEdges()
-	type piece struct{ p, q geom.Vec2 }
-	var pieces []piece
-	for _, r := range rings {
-		m := len(r.pts)
-		for i := range m {
-			p, q := r.pts[i], r.pts[(i+1)%m]
-			t0, t1, ok := b.clipToHull(p, q, hull)
-			if !ok {
-				continue
-			}
-			pp, qq := p, q
-			if t0 > 0 {
-				pp = p.Lerp(q, t0)
-			}
-			if t1 < 1 {
-				qq = p.Lerp(q, t1)
-			}
-			if pp != qq {
-				pieces = append(pieces, piece{pp, qq})
-			}
-		}
+	segs := make([]segment, 0, len(hull))
+	for _, h := range hull {
+		segs = append(segs, segment{h[0], h[1], flagHull, -1})
 	}
-	// Vertices first (elevations from the surface as it is), then the
-	// segments.
-	ids := make([][2]int32, len(pieces))
-	for k, pc := range pieces {
-		for j, x := range [2]geom.Vec2{pc.p, pc.q} {
+	if err := c.insertAll(segs); err != nil {
+		return nil, err
+	}
+	var ids [][]int32
+	for _, r := range rings {
+		id := make([]int32, len(r.pts))
+		for k, x := range r.pts {
 			z := b.zAt(x)
 			b.v = append(b.v, geom.Vec3{X: x.X, Y: x.Y, Z: z})
 			iv := int32(len(b.v) - 1)
@@ -246,24 +206,33 @@ func insertBoundaries(b *builder, c *constrainer, rings []ring) error {
 			if got != iv {
 				b.v = b.v[:iv]
 			}
-			ids[k][j] = got
+			id[k] = got
 		}
+		ids = append(ids, id)
 	}
-	segs := make([]segment, 0, len(pieces))
+	segs = segs[:0]
 	for _, id := range ids {
-		if id[0] != id[1] {
-			segs = append(segs, segment{id[0], id[1], flagBoundary, -1})
+		for k := range id {
+			a, z := id[k], id[(k+1)%len(id)]
+			if a != z {
+				segs = append(segs, segment{a, z, flagBoundary, -1})
+			}
 		}
 	}
-	return c.insertAll(segs)
+	if err := c.insertAll(segs); err != nil {
+		return nil, err
+	}
+	return hull, nil
 }
 
-// classifyInside marks the real triangles inside the union of the rings.
-// Triangles are grouped into regions that no boundary edge separates; each
-// region lies wholly inside or outside, and is decided by the centroid of
-// its largest triangle (far from the boundary in relative terms, so the
-// floating-point containment test is safe).
-func classifyInside(b *builder, rings []ring) []bool {
+// classifyInside marks the real triangles inside the union of the rings and
+// inside the surveyed area's hull (given by its edges' end positions, taken
+// before the rings were inserted). Triangles are grouped into regions that
+// no boundary or hull edge separates; each region lies wholly inside or
+// outside, and is decided by the centroid of its largest triangle (far from
+// the region's edges in relative terms, so the floating-point ring test is
+// safe; the hull test is exact).
+func classifyInside(b *builder, rings []ring, hull [][2]geom.Vec2) []bool {
 	nt := int32(len(b.tri) / 3)
 	keep := make([]bool, nt)
 	seen := make([]bool, nt)
@@ -285,7 +254,7 @@ func classifyInside(b *builder, rings []ring) []bool {
 			}
 			for k := range int32(3) {
 				e := 3*t + k
-				if b.flags[e]&flagBoundary != 0 {
+				if b.flags[e]&(flagBoundary|flagHull) != 0 {
 					continue
 				}
 				u := b.adj[e] / 3
@@ -297,11 +266,20 @@ func classifyInside(b *builder, rings []ring) []bool {
 		}
 		p, q, r := b.v[b.tri[3*best]], b.v[b.tri[3*best+1]], b.v[b.tri[3*best+2]]
 		cen := geom.Vec2{X: (p.X + q.X + r.X) / 3, Y: (p.Y + q.Y + r.Y) / 3}
-		in := false
-		for _, rg := range rings {
-			if rg.pts.Contains(cen) {
-				in = true
+		in := true
+		for _, h := range hull {
+			if robust.Orient2D(h[0], h[1], cen) < 0 {
+				in = false
 				break
+			}
+		}
+		if in {
+			in = false
+			for _, rg := range rings {
+				if rg.pts.Contains(cen) {
+					in = true
+					break
+				}
 			}
 		}
 		if in {

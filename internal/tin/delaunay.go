@@ -34,7 +34,12 @@ const (
 	flagConstrained uint8 = 1 << iota // edge may not be flipped
 	flagBreakline                     // edge lies on a breakline (carries elevations)
 	flagBoundary                      // edge lies on a boundary polygon
+	flagHull                          // edge lies on the survey's hull, frozen while boundaries are inserted
 )
+
+// flagUser marks the constraints the user asked for (what IsConstrained
+// reports and what the edge-length trim exempts).
+const flagUser = flagBreakline | flagBoundary
 
 // next returns the next half-edge of the same triangle.
 func next(e int32) int32 {

@@ -4,10 +4,13 @@ import (
 	"errors"
 	"math"
 	"math/rand/v2"
+	"os/exec"
+	"path/filepath"
 	"slices"
 	"testing"
 
 	"github.com/dugout-estimating/dugout/internal/geom"
+	"github.com/dugout-estimating/dugout/internal/reftest"
 	"github.com/dugout-estimating/dugout/internal/robust"
 )
 
@@ -29,6 +32,8 @@ func TestBuild_BadInput(t *testing.T) {
 		{"collinear at utm offset", []geom.Vec3{v3(5e6, 5e6, 0), v3(5e6+0.001, 5e6+0.001, 0), v3(5e6+0.002, 5e6+0.002, 0)}, ErrCollinear},
 		{"nan x", []geom.Vec3{v3(0, 0, 0), v3(nan, 1, 0), v3(1, 0, 0)}, ErrNonFinite},
 		{"inf z", []geom.Vec3{v3(0, 0, 0), v3(0, 1, 0), v3(1, 0, inf)}, ErrNonFinite},
+		{"huge", []geom.Vec3{v3(0, 0, 0), v3(0, 1, 0), v3(2e15, 0, 0)}, ErrCoordinateRange},
+		{"underflow", []geom.Vec3{v3(0, 0, 0), v3(0, 1, 0), v3(1, 2.2e-308, 0)}, ErrCoordinateRange},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
@@ -153,7 +158,7 @@ func TestBuild_Degenerate(t *testing.T) {
 		{"grid 30x20", grid(v2(0, 0), 1, 30, 20)},
 		{"grid utm mm", grid(v2(5e6, 5e6), 0.001, 25, 25)},
 		{"grid utm 1m", grid(v2(4.5e6, 5e6), 1, 25, 25)},
-		{"grid rotated 90 sum", grid(v2(-3, 7), 0.25, 40, 3)},
+		{"grid 40x3 quarter metre", grid(v2(-3, 7), 0.25, 40, 3)},
 		{"circle", circle},
 		{"circle and centre", circleCentre},
 		{"near-coincident pairs", close},
@@ -170,8 +175,26 @@ func TestBuild_Degenerate(t *testing.T) {
 			if got := s.Summary().Vertices; got != n {
 				t.Errorf("vertices = %d, want all %d distinct points", got, n)
 			}
+			exactCheck(t, s)
+			// The reference bench's validator (exact rational rechecks of
+			// near-zero floating-point results) on the same points.
+			if reftest.Required() || pythonOK() {
+				path := filepath.Join(t.TempDir(), "pts.csv")
+				writePointsCSV(t, path, tt.pts)
+				chk := runRefDelaunay(t, path, canonTris(t, s), "")
+				if !chk.Valid || chk.DelaunayViolations != 0 {
+					t.Errorf("ref_delaunay.py --check: %+v", chk)
+				}
+			}
 		})
 	}
+}
+
+// pythonOK reports whether the reference interpreter with SciPy is present
+// (tests that only add a reference check to an internal one run it when it
+// is, and require it in CI through reftest).
+func pythonOK() bool {
+	return exec.Command("/usr/bin/python3", "-c", "import numpy, scipy.spatial").Run() == nil
 }
 
 // planeZ3 is the test plane z = 100 + 0.02x − 0.035y.
@@ -237,6 +260,12 @@ func TestBuild_HugeOffset(t *testing.T) {
 	}
 	if got := s.Summary().DuplicatesMerged; got != len(pts)-n {
 		t.Errorf("duplicates merged = %d, want %d", got, len(pts)-n)
+	}
+	exactCheck(t, s)
+	path := filepath.Join(t.TempDir(), "pts.csv")
+	writePointsCSV(t, path, pts)
+	if chk := runRefDelaunay(t, path, canonTris(t, s), ""); !chk.Valid || chk.DelaunayViolations != 0 {
+		t.Errorf("ref_delaunay.py --check: %+v", chk)
 	}
 }
 

@@ -3,6 +3,7 @@ package tin
 import (
 	"errors"
 	"fmt"
+	"math"
 	"strings"
 
 	"github.com/dugout-estimating/dugout/internal/geom"
@@ -21,6 +22,10 @@ var (
 	ErrTooManyPoints = errors.New("tin: too many points")
 	// ErrNonFinite: a coordinate is NaN or infinite.
 	ErrNonFinite = errors.New("non-finite coordinate")
+	// ErrCoordinateRange: a plan coordinate is larger in magnitude than
+	// [MaxCoordM] (the input cannot be in a local frame) or non-zero and
+	// smaller than [MinCoordM].
+	ErrCoordinateRange = errors.New("coordinate out of range")
 	// ErrDuplicateConflict: under [DupError], duplicate points whose
 	// elevations differ by more than the conflict tolerance.
 	ErrDuplicateConflict = errors.New("tin: duplicate points with conflicting elevations")
@@ -54,6 +59,26 @@ var (
 // about 3.5e8; 1e8 leaves room for constraint vertices and is far beyond
 // any survey.
 const MaxPoints = 100_000_000
+
+// MaxCoordM bounds the magnitude of plan coordinates, in metres. The exact
+// predicates multiply up to four coordinate differences (the incircle
+// determinant), so coordinates below 1e15 keep every product under 1e62, far
+// from float64 overflow; real coordinates, even unshifted world ones (UTM
+// northings near 1e7 m), are far smaller.
+const MaxCoordM = 1e15
+
+// MinCoordM is the smallest non-zero magnitude of a plan coordinate, in
+// metres: below it the exact predicates' products could underflow (package
+// robust's domain is zero or 1e-50 to 1e50). No survey coordinate is that
+// small; such values only come from arithmetic noise.
+const MinCoordM = 1e-50
+
+// coordOK reports whether c is zero or within [MinCoordM, MaxCoordM] in
+// magnitude.
+func coordOK(c float64) bool {
+	a := math.Abs(c)
+	return a == 0 || (a >= MinCoordM && a <= MaxCoordM)
+}
 
 // PointError reports a problem with input point Index (0-based).
 type PointError struct {

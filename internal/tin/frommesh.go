@@ -30,6 +30,9 @@ func FromMesh(m geom.TriMesh) (*Surface, error) {
 		if !p.IsFinite() {
 			return nil, &MeshError{Triangle: -1, Vertex: i, Msg: fmt.Sprintf("non-finite coordinate (%g, %g, %g)", p.X, p.Y, p.Z)}
 		}
+		if !coordOK(p.X) || !coordOK(p.Y) {
+			return nil, &MeshError{Triangle: -1, Vertex: i, Msg: fmt.Sprintf("coordinate (%g, %g) outside [%g, %g] m", p.X, p.Y, MinCoordM, MaxCoordM)}
+		}
 	}
 	nv := int32(len(m.V))
 	v := slices.Clone(m.V)
@@ -77,6 +80,7 @@ func FromMesh(m geom.TriMesh) (*Surface, error) {
 	if dropped > 0 {
 		s.warnings = append(s.warnings, Warning{Msg: fmt.Sprintf("%d triangles with zero plan area were dropped", dropped), At: droppedAt})
 	}
+	s.computeBounds()
 	s.buckets = newBucketGrid(s.mesh)
 	sum := Summary{InputPoints: len(m.V)}
 	s.finishCommon(&sum)

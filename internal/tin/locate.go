@@ -57,14 +57,15 @@ func cellOf(p geom.Vec2, x0, y0, inv float64, nx, ny int) (int, int) {
 	return min(max(i, 0), nx-1), min(max(j, 0), ny-1)
 }
 
+// newStartGrid builds the start grid over the bounds of the surface's mesh
+// (s.bounds must be set): queries outside them are outside the surface, and
+// far-off vertices of the full triangulation (boundary polygon corners
+// beyond the survey) do not coarsen the grid.
 func newStartGrid(s *Surface) startGrid {
 	var g startGrid
-	g.box = geom.EmptyBox()
-	for _, p := range s.v {
-		g.box = g.box.Extend(geom.Vec2{X: p.X, Y: p.Y})
-	}
+	g.box = s.bounds
 	g.x0, g.y0 = g.box.Min.X, g.box.Min.Y
-	g.inv, g.nx, g.ny = gridShape(g.box, gridCellsPerVertex*float64(len(s.v)))
+	g.inv, g.nx, g.ny = gridShape(g.box, gridCellsPerVertex*float64(len(s.mesh.V)))
 	// Each cell starts from the triangle whose centroid is nearest the
 	// cell's centre among those with the centroid in the cell; cells
 	// without one (a few per cent) take the previous cell's, in row-major

@@ -1,6 +1,7 @@
 package tin
 
 import (
+	"errors"
 	"math"
 	"slices"
 	"testing"
@@ -38,9 +39,12 @@ func TestProperty_Validate(t *testing.T) {
 	rapid.Check(t, func(t *rapid.T) {
 		pts := genPoints(t, 0, 60)
 		s, err := Build(pts, Options{Duplicates: DupFirst})
+		if errors.Is(err, ErrCoordinateRange) {
+			return // rapid likes the smallest normal float: outside the domain
+		}
 		if err != nil {
 			xy := distinctXY(pts)
-			if len(xy) >= 3 && hullBoundaryCount(xy) != len(xy) {
+			if len(convexHull(vec3s(xy))) >= 3 {
 				t.Fatalf("Build of %d distinct non-collinear points failed: %v", len(xy), err)
 			}
 			return
@@ -68,6 +72,9 @@ func TestProperty_OrderInvariant(t *testing.T) {
 		perm := rapid.Permutation(pts).Draw(t, "perm")
 		a, err1 := Build(pts, Options{})
 		b, err2 := Build(perm, Options{})
+		if errors.Is(err1, ErrCoordinateRange) {
+			return
+		}
 		if (err1 == nil) != (err2 == nil) {
 			t.Fatalf("errors differ: %v vs %v", err1, err2)
 		}
@@ -121,6 +128,9 @@ func TestProperty_Constraints(t *testing.T) {
 			bls = append(bls, Breakline{Name: "b", Pts: bp})
 		}
 		s, err := Build(pts, Options{Breaklines: bls, ConflictTolM: 1e9})
+		if errors.Is(err, ErrCoordinateRange) {
+			return
+		}
 		if err != nil {
 			t.Fatal(err)
 		}

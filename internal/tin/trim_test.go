@@ -230,3 +230,71 @@ func TestMaxEdge_ConstraintsExempt(t *testing.T) {
 		t.Errorf("area = %g, want 1.8", s.PlanArea())
 	}
 }
+
+// clipConvex clips polygon subj by the convex counter-clockwise polygon
+// clip (Sutherland & Hodgman, "Reentrant polygon clipping", CACM 17(1),
+// 1974). The area of the result is the area of the intersection even when
+// subj is not convex.
+func clipConvex(subj, clip geom.Ring) geom.Ring {
+	out := subj
+	for i := range clip {
+		a, b := clip[i], clip[(i+1)%len(clip)]
+		in := out
+		out = nil
+		side := func(p geom.Vec2) float64 { return b.Sub(a).Cross(p.Sub(a)) }
+		for k := range in {
+			p, q := in[k], in[(k+1)%len(in)]
+			sp, sq := side(p), side(q)
+			if sp >= 0 {
+				out = append(out, p)
+			}
+			if (sp >= 0) != (sq >= 0) {
+				out = append(out, p.Lerp(q, sp/(sp-sq)))
+			}
+		}
+		if len(out) == 0 {
+			return nil
+		}
+	}
+	return out
+}
+
+// TestBoundary_RandomOverhang: random star-shaped boundaries around a random
+// cloud, most overhanging the convex hull at oblique angles. The trimmed
+// area must equal the area of ring ∩ hull from Sutherland–Hodgman clipping,
+// which fails if a clipped boundary piece stops short of the hull (a gap
+// joins the inside to the outside).
+func TestBoundary_RandomOverhang(t *testing.T) {
+	seed := testSeed(t)
+	r := rand.New(rand.NewPCG(seed, 31))
+	for k := range 40 {
+		var pts []geom.Vec3
+		for range 400 {
+			a, d := r.Float64()*2*math.Pi, 50*math.Sqrt(r.Float64())
+			pts = append(pts, v3(d*math.Cos(a), d*math.Sin(a), 0))
+		}
+		c := v2(r.Float64()*60-30, r.Float64()*60-30)
+		var ring geom.Ring
+		m := 3 + r.IntN(8)
+		for i := range m {
+			a := 2 * math.Pi * (float64(i) + 0.8*r.Float64()) / float64(m)
+			d := 10 + r.Float64()*60
+			ring = append(ring, v2(c.X+d*math.Cos(a), c.Y+d*math.Sin(a)))
+		}
+		hull := geom.Ring(convexHull(pts))
+		want := clipConvex(ring, hull).Area()
+		s, err := Build(pts, Options{Boundary: []geom.Ring{ring}})
+		if want < 1e-6 {
+			continue // (almost) no overlap: either outcome is fine
+		}
+		if err != nil {
+			t.Fatalf("case %d (seed %d): %v", k, seed, err)
+		}
+		if err := s.Validate(); err != nil {
+			t.Fatalf("case %d: %v", k, err)
+		}
+		if got := s.PlanArea(); !relClose(got, want, 1e-9) {
+			t.Errorf("case %d (seed %d): area %.12g, want ring ∩ hull %.12g", k, seed, got, want)
+		}
+	}
+}
