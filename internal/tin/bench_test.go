@@ -186,3 +186,9 @@ func BenchmarkSampleLatticeNaive(b *testing.B) {
 }
 
 var sinkF float64
+
+// BenchmarkBuild1e6Merge1cm: as BenchmarkBuild1e6 with a 1 cm merge
+// distance (the project's default for re-shots).
+func BenchmarkBuild1e6Merge1cm(b *testing.B) {
+	benchBuild(b, uniformPoints(1e6), Options{MergeTolM: 0.01})
+}

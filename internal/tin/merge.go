@@ -264,17 +264,22 @@ func joinInts(v []int, max int) string {
 	return b.String()
 }
 
-// maxCell bounds the cell coordinates of the merge grid, so that a merge
-// tolerance tiny compared with the coordinates is refused instead of
-// overflowing.
-const maxCell = 1 << 52
+// maxCellKey bounds the packed cell keys of the merge grid (the grid's
+// extent divided by the merge distance), so that a merge tolerance tiny
+// compared with the coordinates is refused instead of overflowing.
+const maxCellKey = 1 << 62
 
 // snapWithin implements the merge tolerance: processing breakline vertices
 // first and then survey points in input order, each input joins the earliest
-// group whose first member lies closer than tolM, or starts a group. in.snap
-// is set to each input's group leader. Cells of side tolM, sorted, find the
-// candidates (only the 3×3 cells around a point can hold one closer than
-// tolM).
+// group whose first member lies closer than tolM, or starts a group; in.snap
+// is set to each input's group leader.
+//
+// Candidates come from cells of side tolM: only the 3×3 cells around a point
+// can hold another closer than tolM. Inputs are radix-sorted by cell key
+// (column-major, so the three cells of a neighbouring column are consecutive
+// keys) and swept once with three sliding windows, one per neighbouring
+// column: O(n) after the sort. Pairs closer than tolM are rare in survey
+// data and are resolved afterwards in processing order.
 func snapWithin(in *input, tolM float64) error {
 	n := in.n()
 	np := len(in.pts)
@@ -284,68 +289,98 @@ func snapWithin(in *input, tolM float64) error {
 		}
 		return i + int32(len(in.bl))
 	}
-	type cell struct {
-		cx, cy int64
-		i      int32
-	}
-	cells := make([]cell, n)
+	minX, minY := math.Inf(1), math.Inf(1)
+	maxX, maxY := math.Inf(-1), math.Inf(-1)
 	for i := range int32(n) {
 		p := in.raw(i)
-		fx, fy := math.Floor(p.X/tolM), math.Floor(p.Y/tolM)
-		if math.Abs(fx) > maxCell || math.Abs(fy) > maxCell {
-			return fmt.Errorf("%w: merge tolerance %g m is too small for coordinate (%g, %g)", ErrOption, tolM, p.X, p.Y)
-		}
-		cells[i] = cell{int64(fx), int64(fy), i}
+		minX, maxX = min(minX, p.X), max(maxX, p.X)
+		minY, maxY = min(minY, p.Y), max(maxY, p.Y)
 	}
-	slices.SortFunc(cells, func(a, b cell) int {
-		if c := cmp.Compare(a.cx, b.cx); c != 0 {
-			return c
-		}
-		if c := cmp.Compare(a.cy, b.cy); c != 0 {
-			return c
-		}
-		return cmp.Compare(rank(a.i), rank(b.i))
-	})
-	lead := make([]int32, n)
-	for i := range lead {
-		lead[i] = -1
+	nx := math.Floor((maxX-minX)/tolM) + 3
+	ny := math.Floor((maxY-minY)/tolM) + 3
+	if !(nx*ny < maxCellKey) {
+		return fmt.Errorf("%w: merge tolerance %g m is too small for a survey %g m × %g m across", ErrOption, tolM, maxX-minX, maxY-minY)
 	}
-	tol2 := tolM * tolM
-	order := make([]int32, 0, n)
-	for k := range int32(len(in.bl)) {
-		order = append(order, int32(np)+k)
+	stride := uint64(ny)
+	type kp struct {
+		key uint64
+		i   int32
 	}
-	for k := range int32(np) {
-		order = append(order, k)
-	}
-	for _, i := range order {
+	cells := make([]kp, n)
+	maxKey := uint64(0)
+	for i := range int32(n) {
 		p := in.raw(i)
-		cx, cy := int64(math.Floor(p.X/tolM)), int64(math.Floor(p.Y/tolM))
-		best := int32(-1)
-		for dx := int64(-1); dx <= 1; dx++ {
-			for dy := int64(-1); dy <= 1; dy++ {
-				k, _ := slices.BinarySearchFunc(cells, cell{cx + dx, cy + dy, 0}, func(a, b cell) int {
-					if c := cmp.Compare(a.cx, b.cx); c != 0 {
-						return c
-					}
-					return cmp.Compare(a.cy, b.cy)
-				})
-				for ; k < n && cells[k].cx == cx+dx && cells[k].cy == cy+dy; k++ {
-					j := cells[k].i
-					if lead[j] != j || rank(j) >= rank(i) {
-						continue
-					}
-					q := in.raw(j)
-					if (geom.Vec2{X: p.X, Y: p.Y}).DistanceSquared(geom.Vec2{X: q.X, Y: q.Y}) < tol2 && (best < 0 || rank(j) < rank(best)) {
-						best = j
-					}
+		cx := uint64(math.Floor((p.X-minX)/tolM)) + 1
+		cy := uint64(math.Floor((p.Y-minY)/tolM)) + 1
+		k := cx*stride + cy
+		cells[i] = kp{k, i}
+		maxKey = max(maxKey, k)
+	}
+	// LSD radix sort by key, stable (equal keys keep index order).
+	buf := make([]kp, n)
+	src, dst := cells, buf
+	for shift := uint(0); shift < 64 && maxKey>>shift != 0; shift += 8 {
+		var count [257]int
+		for _, c := range src {
+			count[(c.key>>shift)&0xff+1]++
+		}
+		for d := 1; d < 257; d++ {
+			count[d] += count[d-1]
+		}
+		for _, c := range src {
+			d := (c.key >> shift) & 0xff
+			dst[count[d]] = c
+			count[d]++
+		}
+		src, dst = dst, src
+	}
+	cells, buf = src, nil
+	// Sweep: for the input at sorted position k, the candidates are the
+	// keys key+d−1 … key+d+1 for d in {−stride, 0, +stride}.
+	tol2 := tolM * tolM
+	type pair struct{ i, j int32 } // j is processed before i
+	var pairs []pair
+	var lo [3]int
+	for k := range cells {
+		key := cells[k].key
+		i := cells[k].i
+		p := in.raw(i)
+		for w, d := range [3]int64{-int64(stride), 0, int64(stride)} {
+			from := uint64(int64(key) + d - 1)
+			to := uint64(int64(key) + d + 1)
+			for lo[w] < n && cells[lo[w]].key < from {
+				lo[w]++
+			}
+			for m := lo[w]; m < n && cells[m].key <= to; m++ {
+				j := cells[m].i
+				if j == i || rank(j) > rank(i) {
+					continue
+				}
+				q := in.raw(j)
+				if (geom.Vec2{X: p.X, Y: p.Y}).DistanceSquared(geom.Vec2{X: q.X, Y: q.Y}) < tol2 {
+					pairs = append(pairs, pair{i, j})
 				}
 			}
 		}
-		if best < 0 {
-			best = i
+	}
+	// Resolve in processing order: an input joins its earliest-processed
+	// candidate that leads a group.
+	slices.SortFunc(pairs, func(a, b pair) int {
+		if c := cmp.Compare(rank(a.i), rank(b.i)); c != 0 {
+			return c
 		}
-		lead[i] = best
+		return cmp.Compare(rank(a.j), rank(b.j))
+	})
+	lead := make([]int32, n)
+	for i := range lead {
+		lead[i] = int32(i)
+	}
+	for _, pr := range pairs {
+		if lead[pr.i] == pr.i && lead[pr.j] == pr.j {
+			// The first (earliest) candidate that is a leader wins; i may
+			// not become a member twice.
+			lead[pr.i] = pr.j
+		}
 	}
 	in.snap = lead
 	return nil
