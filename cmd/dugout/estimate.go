@@ -5,10 +5,12 @@ import (
 	"errors"
 	"fmt"
 	"strconv"
+	"time"
 
 	"github.com/spf13/cobra"
 
 	"github.com/dugout-estimating/dugout/internal/estimate"
+	"github.com/dugout-estimating/dugout/internal/report"
 	"github.com/dugout-estimating/dugout/internal/sitefile"
 )
 
@@ -20,8 +22,14 @@ gravel with crew time, water volume and pump duty, and the cost when priced.
 The job comes from a site file (--site, see the README's "Site file") or from
 flags; flags override the site file, and --set section.key=value reaches any
 key of it. --report DIR writes the report (report.html), the plan and
-sections (SVG), contours (GeoJSON), quantities (JSON and CSV) and the
-stake-out sheet (CSV).
+sections (SVG), contours (GeoJSON), quantities (JSON and CSV), the
+stake-out sheet (CSV) and the finished grade (LandXML), and lists the files
+it wrote (on stderr with --json, so that stdout holds one JSON document).
+The folder is checked before any work starts.
+
+The summary on stdout is in the job's units with the other system beside
+it; --json prints the whole estimate as one JSON document in SI units
+instead. Warnings about the data go to stderr.
 
 Water level: an elevation, "auto" (the rim at the lowest ground along the
 rim line, so no berm is needed) or "balance" (the level at which the cut
@@ -58,6 +66,10 @@ type estimateOptions struct {
 	overlap   string
 	report    string
 	outUnits  string
+	stakes    string
+
+	// now gives the report's date; nil means time.Now (tests fix it).
+	now func() time.Time
 }
 
 func newEstimateCmd(app *App) *cobra.Command {
@@ -92,6 +104,7 @@ func newEstimateCmd(app *App) *cobra.Command {
 	f.StringVar(&o.overlap, "liner-overlap", "", "liner anchor allowance beyond the rim, a length (liner.overlap)")
 	f.StringVar(&o.outUnits, "out-units", "", "units results are printed in: {m|ft} (out_units)")
 	f.StringVar(&o.report, "report", "", "write the report and drawings into this folder")
+	f.StringVar(&o.stakes, "stake-spacing", "", "greatest distance between stakes on the cut sheet, a length such as 3ft (report.stake_spacing; default 3 ft or 1 m)")
 	return cmd
 }
 
@@ -124,6 +137,7 @@ func (o *estimateOptions) siteFromFlags() (*sitefile.Site, error) {
 	str("earthwork.truck", o.truck)
 	str("design.cell", o.cell)
 	str("liner.overlap", o.overlap)
+	str("report.stake_spacing", o.stakes)
 	if o.slope != "" {
 		if _, err := strconv.ParseFloat(o.slope, 64); err != nil {
 			return nil, flagErrorf("--berm-slope %q: want a number (horizontal per vertical)", o.slope)
@@ -152,6 +166,13 @@ func runEstimate(ctx context.Context, o *estimateOptions) error {
 	if err != nil {
 		return err
 	}
+	if o.report != "" {
+		// Before any work: a folder that cannot be written fails now,
+		// not after the estimate.
+		if err := report.CheckOutputDir(o.report); err != nil {
+			return err
+		}
+	}
 	job, err := estimate.FromSite(s)
 	if err != nil {
 		if errors.Is(err, estimate.ErrJob) {
@@ -163,7 +184,7 @@ func runEstimate(ctx context.Context, o *estimateOptions) error {
 	if err != nil {
 		return classify(err)
 	}
-	return renderEstimate(o.app, res, o.report)
+	return renderEstimate(o.app, res, o)
 }
 
 // classify maps a failed run to an exit code: data that was read but
@@ -182,12 +203,46 @@ func classify(err error) error {
 	return &RejectedError{Err: err}
 }
 
-func renderEstimate(app *App, r *estimate.Result, reportDir string) error {
-	d, e := r.Design, r.Earthwork
-	fmt.Fprintf(app.IO.Out, "water level %.3f m (%s), rim %.3f m\n", d.WaterLevelM, d.Level, d.RimM)
-	fmt.Fprintf(app.IO.Out, "cut %.2f m3, fill %.2f m3, haul %.2f m3 loose, %d loads\n", e.CutBankM3, e.FillCompactedM3, e.HaulLooseM3, e.Truckloads)
+// renderEstimate prints the estimate: warnings on stderr, the summary (or
+// with --json the JSON document) on stdout, and with --report the report
+// folder, listing the files written on stdout after the summary, or on
+// stderr with --json.
+func renderEstimate(app *App, r *estimate.Result, o *estimateOptions) error {
 	for _, w := range r.Warnings {
 		app.Warnf("%s", w)
+	}
+	date := time.Now()
+	if o.now != nil {
+		date = o.now()
+	}
+	if app.JSON {
+		if err := report.WriteJSON(app.IO.Out, r); err != nil {
+			return err
+		}
+	} else if err := report.WriteSummary(app.IO.Out, r, report.SummaryOptions{Date: date, WarningsElsewhere: !app.Quiet}); err != nil {
+		return err
+	}
+	if o.report == "" {
+		return nil
+	}
+	files, err := report.WriteReportDir(o.report, r, report.ReportOptions{Date: date, Footer: "dugout " + version})
+	if err != nil {
+		if errors.Is(err, estimate.ErrStakeout) || errors.Is(err, report.ErrInvalidValue) || errors.Is(err, report.ErrTooLarge) {
+			return &RejectedError{Err: err}
+		}
+		return err
+	}
+	list := app.IO.Out
+	if app.JSON {
+		if app.Quiet {
+			return nil
+		}
+		list = app.IO.ErrOut
+	} else {
+		fmt.Fprintf(list, "\nReport written to %s:\n", o.report)
+	}
+	for _, f := range files {
+		fmt.Fprintln(list, "  "+f)
 	}
 	return nil
 }
