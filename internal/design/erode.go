@@ -5,6 +5,7 @@ import (
 
 	"github.com/dugout-estimating/dugout/internal/geom"
 	"github.com/dugout-estimating/dugout/internal/grid"
+	"github.com/dugout-estimating/dugout/internal/robust"
 )
 
 // Inward offsets (erosions) of a simple polygon, found on a raster and
@@ -448,7 +449,7 @@ func dropCollinear(r geom.Ring) geom.Ring {
 		changed = false
 		for i := 0; i < len(out) && len(out) > 3; i++ {
 			a, b, c := out[(i+len(out)-1)%len(out)], out[i], out[(i+1)%len(out)]
-			if orient(a, b, c) == 0 && onSegment(b, a, c) {
+			if robust.Orient2D(a, b, c) == robust.Zero && onSegment(b, a, c) {
 				out = append(out[:i], out[i+1:]...)
 				changed = true
 				i--

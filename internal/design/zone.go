@@ -7,6 +7,7 @@ import (
 	"slices"
 
 	"github.com/dugout-estimating/dugout/internal/geom"
+	"github.com/dugout-estimating/dugout/internal/robust"
 )
 
 // Corners says how a sloped wall turns a convex corner of its zone.
@@ -140,7 +141,7 @@ func checkSimple(r geom.Ring) error {
 		// Consecutive edges a→b→c fold back when c lies on the line ab
 		// and the direction reverses.
 		c := r[(i+2)%n]
-		if orient(a, b, c) == 0 && (b.X-a.X)*(c.X-b.X)+(b.Y-a.Y)*(c.Y-b.Y) < 0 {
+		if robust.Orient2D(a, b, c) == robust.Zero && (b.X-a.X)*(c.X-b.X)+(b.Y-a.Y)*(c.Y-b.Y) < 0 {
 			return fmt.Errorf("%w: the outline folds back on itself at vertex %d (%g, %g)", ErrZone, (i+1)%n, b.X, b.Y)
 		}
 	}
@@ -173,9 +174,36 @@ func checkSimple(r geom.Ring) error {
 func isConvex(r geom.Ring) bool {
 	n := len(r)
 	for i := range r {
-		if orient(r[(i+n-1)%n], r[i], r[(i+1)%n]) < 0 {
+		if robust.Orient2D(r[(i+n-1)%n], r[i], r[(i+1)%n]) == robust.Negative {
 			return false
 		}
 	}
 	return true
+}
+
+// onSegment reports whether p, known to be collinear with ab, lies on the
+// closed segment ab (exact: comparisons only).
+func onSegment(p, a, b geom.Vec2) bool {
+	return min(a.X, b.X) <= p.X && p.X <= max(a.X, b.X) && min(a.Y, b.Y) <= p.Y && p.Y <= max(a.Y, b.Y)
+}
+
+// segmentsMeet reports whether the closed segments ab and cd share a point,
+// decided exactly with [robust.Orient2D].
+func segmentsMeet(a, b, c, d geom.Vec2) bool {
+	o1, o2 := robust.Orient2D(a, b, c), robust.Orient2D(a, b, d)
+	o3, o4 := robust.Orient2D(c, d, a), robust.Orient2D(c, d, b)
+	if o1 != o2 && o3 != o4 {
+		return true
+	}
+	switch {
+	case o1 == robust.Zero && onSegment(c, a, b):
+		return true
+	case o2 == robust.Zero && onSegment(d, a, b):
+		return true
+	case o3 == robust.Zero && onSegment(a, c, d):
+		return true
+	case o4 == robust.Zero && onSegment(b, c, d):
+		return true
+	}
+	return false
 }
