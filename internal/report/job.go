@@ -10,6 +10,8 @@ import (
 
 	"github.com/dugout-estimating/dugout/internal/design"
 	"github.com/dugout-estimating/dugout/internal/estimate"
+	"github.com/dugout-estimating/dugout/internal/geom"
+	"github.com/dugout-estimating/dugout/internal/survey"
 	"github.com/dugout-estimating/dugout/internal/takeoff"
 	"github.com/dugout-estimating/dugout/internal/units"
 )
@@ -187,8 +189,8 @@ func (l *jobLine) alsoText(sys units.System) string {
 		return ""
 	}
 	first, _, ok := jobUnits(l.also, sys)
-	if !ok {
-		return ""
+	if mine, _, _ := jobUnits(l.kind, sys); !ok || first.symbol == mine.symbol {
+		return "" // ft³ beside m³ is m³ again for metric users
 	}
 	return jobNum(l.vals[0], first, sys) + " " + first.symbol
 }
@@ -221,6 +223,29 @@ type jobView struct {
 	compare  []Comparison
 	cautions []Caution
 	assumed  []Row
+
+	// Computed once, on first use.
+	edge    []takeoff.Line
+	edgeOK  bool
+	work    *geom.TriMesh
+	summary *survey.Summary
+}
+
+// workEdge returns r.WorkEdge(), traced once.
+func (v *jobView) workEdge() []takeoff.Line {
+	if !v.edgeOK {
+		v.edge, v.edgeOK = v.r.WorkEdge(), true
+	}
+	return v.edge
+}
+
+// surveySummary returns the survey's validation summary, computed once.
+func (v *jobView) surveySummary() *survey.Summary {
+	if v.summary == nil {
+		s := v.r.Survey.Summary()
+		v.summary = &s
+	}
+	return v.summary
 }
 
 // newJobView maps r onto its printed quantities.

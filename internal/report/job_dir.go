@@ -249,10 +249,14 @@ func (v *jobView) disturbed(k int) bool {
 // so that design contours show the new ground and tie into the existing
 // contours one cell outside it.
 func (v *jobView) workMesh() geom.TriMesh {
-	l := v.r.Design.Lattice
-	return l.Mesh(v.r.Design.D, func(i, j int) bool {
-		return v.disturbed(l.Index(i, j)) || v.disturbed(l.Index(i+1, j)) || v.disturbed(l.Index(i, j+1)) || v.disturbed(l.Index(i+1, j+1))
-	})
+	if v.work == nil {
+		l := v.r.Design.Lattice
+		m := l.Mesh(v.r.Design.D, func(i, j int) bool {
+			return v.disturbed(l.Index(i, j)) || v.disturbed(l.Index(i+1, j)) || v.disturbed(l.Index(i, j+1)) || v.disturbed(l.Index(i+1, j+1))
+		})
+		v.work = &m
+	}
+	return *v.work
 }
 
 // cutFillContours traces lines of equal cut or fill depth on D − G at the
@@ -270,7 +274,7 @@ func (v *jobView) cutFillContours(o contours.Options) ([]contours.Line, error) {
 			out = append(out, l)
 		}
 	}
-	for _, e := range v.r.WorkEdge() {
+	for _, e := range v.workEdge() {
 		pts := e.Pts
 		if e.Closed {
 			pts = append(slices.Clone(pts), pts[0])
@@ -451,7 +455,7 @@ func (v *jobView) sectionLines() ([]PlanSectionLine, error) {
 		dir := long[1].Sub(long[0])
 		dir = dir.Scale(1 / dir.Norm())
 		extent := shape
-		if edge := r.WorkEdge(); len(edge) > 0 && edge[0].Closed {
+		if edge := v.workEdge(); len(edge) > 0 && edge[0].Closed {
 			extent = geom.Ring(edge[0].Pts)
 		}
 		for _, s := range []struct {
@@ -656,7 +660,7 @@ func (v *jobView) bermToe() []geom.Polyline {
 		return ok && g < r.Design.RimM
 	}
 	var out []geom.Polyline
-	for _, e := range r.WorkEdge() {
+	for _, e := range v.workEdge() {
 		pts := e.Pts
 		n := len(pts)
 		if n < 2 {
@@ -742,7 +746,7 @@ const (
 // planWindow returns the part of the site the plan shows.
 func (v *jobView) planWindow(sections []PlanSectionLine) geom.Box {
 	b := geom.EmptyBox()
-	for _, e := range v.r.WorkEdge() {
+	for _, e := range v.workEdge() {
 		b = b.Union(geom.BoxOf(e.Pts))
 	}
 	for _, z := range v.r.Zones {

@@ -84,7 +84,7 @@ func (v *jobView) methods(stakes []estimate.StakePoint) []Method {
 	r := v.r
 	j, d, t := r.Job, r.Design, r.Takeoff
 	ts := r.Terrain.Summary()
-	sum := r.Survey.Summary()
+	sum := v.surveySummary()
 	ground := "the survey gives no accuracy column; between shots the ground is taken as planar on each triangle, so breaks of slope need shots or breaklines"
 	if sum.VAcc.N > 0 {
 		ground = fmt.Sprintf("vertical accuracy of the shots: median %s, 95 %% %s (from the file); between shots the ground is planar on each triangle",
@@ -126,7 +126,7 @@ func (v *jobView) accuracy() []Row {
 	r := v.r
 	d := r.Design
 	ts := r.Terrain.Summary()
-	sum := r.Survey.Summary()
+	sum := v.surveySummary()
 	lines := []jobLine{
 		{label: "Survey points in the surface", kind: jkCount, vals: []float64{float64(ts.Vertices)}, unit: "points"},
 		{label: "Triangles of the surface", kind: jkCount, vals: []float64{float64(ts.Triangles)}, unit: "triangles"},

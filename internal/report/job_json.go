@@ -254,7 +254,7 @@ func jobDocument(r *estimate.Result) (*jobJSON, error) {
 	doc.Inputs = jobInputs(r)
 
 	set := r.Survey
-	sum := set.Summary()
+	sum := v.surveySummary()
 	doc.Survey = jobSurveyJSON{Points: sum.Count, Files: []jobFileJSON{}, CRS: set.CRS.String(), EPSG: set.CRS.EPSG,
 		Geographic: set.Geographic, Breaklines: len(set.Breaklines), Boundaries: len(set.Boundaries)}
 	for _, f := range set.Files {
