@@ -1,6 +1,7 @@
 package tin
 
 import (
+	"math"
 	"math/rand/v2"
 	"path/filepath"
 	"runtime"
@@ -59,10 +60,29 @@ func BenchmarkBuildAutzenGround(b *testing.B) {
 	benchBuild(b, toLocal(readCSVPoints(b, path, units.Foot)), Options{})
 }
 
-// BenchmarkBuildBreaklines1e5 adds 50 random crossing breaklines of 20
-// vertices to 1e5 points.
+// BenchmarkBuildBreaklines1e5 adds 100 breaklines to 1e5 points, each a
+// random walk of 40 vertices with 2 m steps (curbs, toes and tops of bank:
+// a few cross), and BenchmarkBuildBreaklinesCrossing1e5 50 long random
+// lines of 20 vertices crossing each other about 10^5 times (a stress case).
 func BenchmarkBuildBreaklines1e5(b *testing.B) {
-	pts := uniformPoints(1e5)
+	r := rand.New(rand.NewPCG(5, 6))
+	var bls []Breakline
+	for range 100 {
+		x, y := r.Float64()*160-80, r.Float64()*110-55
+		dir := r.Float64() * 2 * math.Pi
+		var p []geom.Vec3
+		for range 40 {
+			p = append(p, geom.Vec3{X: x, Y: y, Z: 100})
+			dir += r.Float64()*0.6 - 0.3
+			x = max(-99, min(99, x+2*math.Cos(dir)))
+			y = max(-74, min(74, y+2*math.Sin(dir)))
+		}
+		bls = append(bls, Breakline{Name: "b", Pts: p})
+	}
+	benchBuild(b, uniformPoints(1e5), Options{Breaklines: bls, ConflictTolM: 1e9})
+}
+
+func BenchmarkBuildBreaklinesCrossing1e5(b *testing.B) {
 	r := rand.New(rand.NewPCG(5, 6))
 	var bls []Breakline
 	for range 50 {
@@ -72,7 +92,7 @@ func BenchmarkBuildBreaklines1e5(b *testing.B) {
 		}
 		bls = append(bls, Breakline{Name: "b", Pts: p})
 	}
-	benchBuild(b, pts, Options{Breaklines: bls, ConflictTolM: 1e9})
+	benchBuild(b, uniformPoints(1e5), Options{Breaklines: bls, ConflictTolM: 1e9})
 }
 
 // queryPoints returns n query points uniform over the site.

@@ -60,6 +60,10 @@ type constrainer struct {
 	warnCount int
 	work      []segment
 	budget    int
+
+	// Buffers reused from segment to segment.
+	cav, crossed []int32
+	at           map[int32]int
 }
 
 func newConstrainer(b *builder, names []string, tolZ float64) *constrainer {
@@ -183,9 +187,10 @@ func (c *constrainer) insert(s segment) error {
 
 	// Walk along a→z collecting the crossed edges. The crossed half-edge h
 	// always runs from a vertex right of a→z to one left of it.
-	cav := []int32{e / 3}
+	cav := append(c.cav[:0], e/3)
 	h := next(e)
-	var crossed []int32
+	crossed := c.crossed[:0]
+	defer func() { c.cav, c.crossed = cav[:0], crossed[:0] }()
 	for {
 		if b.flags[h]&flagConstrained != 0 {
 			return c.cross(s, h)
@@ -225,7 +230,11 @@ func (c *constrainer) flipOut(s segment, crossed, cav []int32) error {
 	// in those slots are remapped (at tracks each queued half-edge's
 	// position in the queue).
 	queue := crossed
-	at := make(map[int32]int, len(queue))
+	if c.at == nil {
+		c.at = make(map[int32]int)
+	}
+	at := c.at
+	clear(at)
 	for i, h := range queue {
 		at[h] = i
 	}

@@ -84,30 +84,6 @@ func hilbertTables() [4 << 8]uint16 {
 	return lut
 }
 
-// hilbertKeySlow is the classic iterative xy→d conversion, kept as the
-// test oracle for hilbertKey.
-func hilbertKeySlow(x, y uint32) uint32 {
-	var d uint32
-	for s := uint32(hilbertOrder / 2); s > 0; s >>= 1 {
-		var rx, ry uint32
-		if x&s != 0 {
-			rx = 1
-		}
-		if y&s != 0 {
-			ry = 1
-		}
-		d += s * s * ((3 * rx) ^ ry)
-		if ry == 0 {
-			if rx == 1 {
-				x = hilbertOrder - 1 - x
-				y = hilbertOrder - 1 - y
-			}
-			x, y = y, x
-		}
-	}
-	return d
-}
-
 // radixSortHigh sorts keys by their upper 32 bits, stably, with an LSD radix
 // sort of four 8-bit digits. buf must have the same length as keys; the
 // result is in keys.

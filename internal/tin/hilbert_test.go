@@ -22,3 +22,27 @@ func TestHilbertKey(t *testing.T) {
 		}
 	}
 }
+
+// hilbertKeySlow is the classic iterative xy→d conversion, the test oracle
+// for hilbertKey.
+func hilbertKeySlow(x, y uint32) uint32 {
+	var d uint32
+	for s := uint32(hilbertOrder / 2); s > 0; s >>= 1 {
+		var rx, ry uint32
+		if x&s != 0 {
+			rx = 1
+		}
+		if y&s != 0 {
+			ry = 1
+		}
+		d += s * s * ((3 * rx) ^ ry)
+		if ry == 0 {
+			if rx == 1 {
+				x = hilbertOrder - 1 - x
+				y = hilbertOrder - 1 - y
+			}
+			x, y = y, x
+		}
+	}
+	return d
+}

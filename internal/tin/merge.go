@@ -57,8 +57,9 @@ func (in *input) raw(i int32) geom.Vec3 {
 const maxWarningsPerKind = 100
 
 // prepare checks the inputs, merges duplicates by the policy and returns the
-// vertices in Hilbert order.
-func prepare(in *input, opt *Options) (*prepared, error) {
+// vertices in Hilbert order, with room for extra more (vertices that
+// constraint insertion will add).
+func prepare(in *input, opt *Options, extra int) (*prepared, error) {
 	n := in.n()
 	if opt.MergeTolM > 0 {
 		if err := snapWithin(in, opt.MergeTolM); err != nil {
@@ -98,7 +99,7 @@ func prepare(in *input, opt *Options) (*prepared, error) {
 	}
 	radixSortHigh(keys, make([]uint64, n))
 
-	pr := &prepared{v: make([]geom.Vec3, 0, n), src: make([]int32, 0, n)}
+	pr := &prepared{v: make([]geom.Vec3, 0, n+extra), src: make([]int32, 0, n)}
 	if len(in.bl) > 0 {
 		pr.blv = make([]int32, len(in.bl))
 	}

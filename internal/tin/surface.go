@@ -133,7 +133,18 @@ func Build(pts []geom.Vec3, opt Options) (*Surface, error) {
 		}
 	}
 
-	pr, err := prepare(in, &opt)
+	// Room for the vertices constraints add, so that the arrays are not
+	// reallocated (doubled) for a few: crossings of breaklines (a guess: two
+	// per segment), ring vertices, and crossings of ring edges with the hull
+	// (at most two per edge). More is fine; the arrays then grow.
+	extra := 64
+	for _, bl := range opt.Breaklines {
+		extra += 2 * len(bl.Pts)
+	}
+	for _, r := range rings {
+		extra += 3 * len(r.pts)
+	}
+	pr, err := prepare(in, &opt, extra)
 	if err != nil {
 		return nil, err
 	}
@@ -142,8 +153,8 @@ func Build(pts []geom.Vec3, opt Options) (*Surface, error) {
 		return nil, ErrTooFewPoints
 	}
 	b := &builder{v: pr.v}
-	b.tri = make([]int32, 0, 6*n+64)
-	b.adj = make([]int32, 0, 6*n+64)
+	b.tri = make([]int32, 0, 6*(n+extra))
+	b.adj = make([]int32, 0, 6*(n+extra))
 	seed := -1
 	for k := 2; k < n; k++ {
 		if robust.Orient2D(b.xy(0), b.xy(1), b.xy(int32(k))) != 0 {
