@@ -435,6 +435,10 @@ func (v *jobView) stone() jobSection {
 		s.lines = append(s.lines, jobLine{label: "Gravel on " + g.Zone, kind: jkTons, vals: []float64{g.Mass.Kg},
 			note: fmt.Sprintf("%s, %s over %s of %s", g.Material, v.depthText(g.ThicknessM), v.areaText(g.FloorAreaM2+g.WallAreaM2), where)})
 	}
+	if st.Edge == nil && len(st.Gravel) == 0 {
+		s.notes = []string{"No edge stone or gravel is ordered: the site file has no [stone] or [gravel] section."}
+		return s
+	}
 	s.lines = append(s.lines, jobLine{label: "Stone and gravel, total", kind: jkTons, vals: []float64{st.TotalTons * units.ShortTon}})
 	s.lines = append(s.lines,
 		jobLine{label: "Crew", kind: jkCount, vals: []float64{float64(c.Size)}, unit: plural(c.Size, "worker", "workers")},
@@ -472,12 +476,16 @@ func (v *jobView) waterPump() jobSection {
 		s.lines = append(s.lines, jobLine{label: "Spillway flow", kind: jkFlowHour, vals: []float64{perS(p.SpillwayFlowM3PerH)},
 			note: fmt.Sprintf("%s sheet over %s of weir", p.SpillwaySheet, v.depthText(p.SpillwayWidthM))})
 	}
-	s.lines = append(s.lines,
-		jobLine{label: "Static lift", kind: jkLength, vals: []float64{p.StaticLiftM}, note: "water level to the discharge"},
-		jobLine{label: "Friction loss", kind: jkLength, vals: []float64{p.FrictionM},
-			note: fmt.Sprintf("Hazen-Williams, C = %g, over %s of pipe and fittings", p.PipeC, v.lengthText(p.EquivLengthM))},
-		jobLine{label: "Total head (duty point)", kind: jkLength, vals: []float64{p.HeadM}, note: "static lift + friction"},
-	)
+	s.lines = append(s.lines, jobLine{label: "Static lift", kind: jkLength, vals: []float64{p.StaticLiftM}, note: "water level to the discharge"})
+	if p.PipeLengthM > 0 {
+		s.lines = append(s.lines, jobLine{label: "Friction loss", kind: jkLength, vals: []float64{p.FrictionM},
+			note: fmt.Sprintf("Hazen-Williams, C = %g, over %s of pipe and fittings", p.PipeC, v.lengthText(p.EquivLengthM))})
+	}
+	headNote := "static lift + friction"
+	if p.PipeLengthM == 0 {
+		headNote = "static lift only: the site file gives no pipe"
+	}
+	s.lines = append(s.lines, jobLine{label: "Total head (duty point)", kind: jkLength, vals: []float64{p.HeadM}, note: headNote})
 	if p.PipeDiameterM > 0 {
 		s.lines = append(s.lines, jobLine{label: "Pipe velocity", kind: jkSpeed, vals: []float64{p.VelocityMPerS},
 			note: fmt.Sprintf("in %s inside diameter", v.depthText(p.PipeDiameterM))})

@@ -90,7 +90,7 @@ func WriteSummary(w io.Writer, r *estimate.Result, opts SummaryOptions) error {
 			}
 			note := diff + " of the rule: " + c.RuleText
 			if c.Note != "" {
-				note += "; " + c.Note
+				note += ". " + c.Note
 			}
 			t.row(c.Label, strings.TrimSpace(m.Value+" "+m.Unit), "rule "+strings.TrimSpace(rule.Value+" "+rule.Unit), note)
 		}
