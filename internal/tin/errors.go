@@ -87,6 +87,7 @@ type PointError struct {
 	Err   error
 }
 
+// Error names the point, its coordinates and the problem.
 func (e *PointError) Error() string {
 	return fmt.Sprintf("tin: point %d (%g, %g, %g): %v", e.Index, e.P.X, e.P.Y, e.P.Z, e.Err)
 }
@@ -106,6 +107,7 @@ type DuplicateError struct {
 	Breaklines []string // names of breaklines with a vertex in the group
 }
 
+// Error names the position, the elevation spread and the points.
 func (e *DuplicateError) Error() string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "tin: duplicate points at (%g, %g) differ in elevation by %.4g m (%g to %g m, conflict tolerance %g m): points", e.At.X, e.At.Y, e.ZMaxM-e.ZMinM, e.ZMinM, e.ZMaxM, e.TolM)
@@ -137,6 +139,8 @@ type BreaklineError struct {
 	Err    error
 }
 
+// Error names the breakline, the vertex and the problem (with the distance
+// outside the surveyed area for ErrBreaklineOutside).
 func (e *BreaklineError) Error() string {
 	switch {
 	case errors.Is(e.Err, ErrBreaklineOutside):
@@ -161,6 +165,7 @@ type BoundaryError struct {
 	Err   error
 }
 
+// Error names the ring and the intersecting edges or the problem.
 func (e *BoundaryError) Error() string {
 	if e.EdgeA >= 0 {
 		return fmt.Sprintf("tin: boundary %d: edges %d and %d intersect: %v", e.Ring, e.EdgeA, e.EdgeB, e.Err)
@@ -177,6 +182,7 @@ type OptionError struct {
 	Value float64
 }
 
+// Error names the option and its value.
 func (e *OptionError) Error() string {
 	return fmt.Sprintf("tin: option %s must be a finite number >= 0, got %g", e.Name, e.Value)
 }
@@ -192,6 +198,7 @@ type MeshError struct {
 	Msg      string
 }
 
+// Error names the triangle or vertex and the problem.
 func (e *MeshError) Error() string {
 	switch {
 	case e.Triangle >= 0:
