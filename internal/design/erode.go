@@ -1,7 +1,9 @@
 package design
 
 import (
+	"cmp"
 	"math"
+	"slices"
 
 	"github.com/dugout-estimating/dugout/internal/geom"
 	"github.com/dugout-estimating/dugout/internal/grid"
@@ -17,10 +19,14 @@ import (
 //
 //  1. Sample φ = sd − δ on a raster of erodeCells cells across O's box,
 //     where sd is the exact signed distance to ∂O (positive inside). Only
-//     nodes within two cells of the level set get their distance computed
-//     (sd is 1-Lipschitz, so nodes farther off cannot border a crossing).
-//  2. Trace φ = 0 by marching squares (saddles decided by the exact φ at
-//     the cell centre) into closed loops, counter-clockwise.
+//     the small tiles of the raster that can hold nodes within two cells
+//     of the level set get their distances computed and stored (sd is
+//     1-Lipschitz, so nodes farther off cannot border a crossing); the
+//     rest keep only their sign, so the work goes with the outline's
+//     length in cells, not with the raster's area.
+//  2. Trace φ = 0 by marching squares over the stored tiles (saddles
+//     decided by the exact φ at the cell centre) into closed loops,
+//     counter-clockwise, in a fixed order.
 //  3. Give each loop vertex the feature of ∂O nearest to it (an edge, or a
 //     vertex when the nearest point is one), and move it onto that
 //     feature's offset curve: it is then exactly on the erosion boundary.
@@ -60,7 +66,7 @@ func erode(r geom.Ring, delta float64) []geom.Ring {
 		return nil // cannot happen: about erodeCells² nodes
 	}
 	phi := erosionField(q, lat, delta)
-	loops := marchLoops(lat, phi, func(p geom.Vec2) float64 { return signedDist(q, p) - delta })
+	loops := marchLoops(phi, func(p geom.Vec2) float64 { return signedDist(q, p) - delta })
 	var out []geom.Ring
 	for _, loop := range loops {
 		if rr := rebuildLoop(q, loop, delta, hr); rr != nil {
@@ -79,69 +85,129 @@ func signedDist(q *polygon, p geom.Vec2) float64 {
 	return -d
 }
 
-// erosionField samples φ = sd − δ; nodes that cannot border the level set
-// get ±far instead of their value.
-func erosionField(q *polygon, l grid.Lattice, delta float64) []float64 {
-	phi := make([]float64, l.Len())
+// bandTile is the side, in nodes, of the tiles of a [bandField]: small,
+// because the band it stores is only four cells wide.
+const bandTile = 8
+
+// bandField is φ = sd − δ on a lattice, stored by tiles of bandTile ×
+// bandTile nodes: a tile whose bounds put every node farther than two
+// cells from the level set holds no values, only the sign of φ there (the
+// node value is then ±far); the others, the band around the level set,
+// hold every node's exact value. Memory and time go with the length of
+// the level set, not with the lattice's area.
+type bandField struct {
+	lat      grid.Lattice
+	tnx, tny int       // tiles across and up
+	sign     []int8    // per tile: +1 far inside, −1 far outside, 0 stored
+	slot     []int32   // per tile: its block in vals when stored
+	vals     []float64 // bandTile² values per stored tile, row by row
+	far      float64   // |φ| given to the nodes of an unstored tile
+}
+
+// at returns φ at node (i, j).
+func (f *bandField) at(i, j int) float64 {
+	t := (j/bandTile)*f.tnx + i/bandTile
+	if s := f.sign[t]; s != 0 {
+		return float64(s) * f.far
+	}
+	return f.vals[int(f.slot[t])*bandTile*bandTile+(j%bandTile)*bandTile+i%bandTile]
+}
+
+// stored reports whether node (i, j) lies in a tile with stored values.
+func (f *bandField) stored(i, j int) bool {
+	return f.sign[(j/bandTile)*f.tnx+i/bandTile] == 0
+}
+
+// erosionField samples φ = sd − δ. A quadtree of tiles narrows the edges
+// that can be nearest (as [field.fill] does) and stops at tiles that
+// cannot border the level set: sd is 1-Lipschitz, so where its bounds
+// over a tile keep it more than two cells from δ no cell of the tile
+// meets φ = 0. Each stored node gets the exact value: the least distance
+// to the candidate edges, signed by the crossing rule of
+// [polygon.contains], the value signedDist gives.
+func erosionField(q *polygon, l grid.Lattice, delta float64) *bandField {
+	tnx, tny := (l.NX+bandTile-1)/bandTile, (l.NY+bandTile-1)/bandTile
+	f := &bandField{lat: l, tnx: tnx, tny: tny, sign: make([]int8, tnx*tny), slot: make([]int32, tnx*tny), far: 4 * l.H}
 	rows := newRowIndex(l, q)
-	far := 4 * l.H
 	w := &tileWorker{}
-	all := w.all(len(q.segs))
-	const t = leafSize
-	for tj := 0; tj < l.NY; tj += t {
-		for ti := 0; ti < l.NX; ti += t {
-			i1, j1 := min(ti+t, l.NX), min(tj+t, l.NY)
-			x0, y0 := l.X0+float64(ti)*l.H, l.Y0+float64(tj)*l.H
-			x1, y1 := l.X0+float64(i1-1)*l.H, l.Y0+float64(j1-1)*l.H
-			mark := len(w.arena)
-			cand, lb2, ub2 := w.eucBounds(q, all, x0, y0, x1, y1)
-			lb, ub := math.Sqrt(lb2), math.Sqrt(ub2)
-			// Bounds of sd over the tile, and its sign where uniform.
-			uniform := 0.0 // +1 inside, −1 outside, 0 unknown
-			sdlo, sdhi := -ub, ub
-			if lb > 0 {
-				uniform = -1
-				sdlo, sdhi = -ub, -lb
-				if rows.inside(tj, x0) {
-					uniform = 1
-					sdlo, sdhi = lb, ub
+	var walk func(ti0, ti1, tj0, tj1 int, cand []int32)
+	walk = func(ti0, ti1, tj0, tj1 int, cand []int32) {
+		i0, j0 := ti0*bandTile, tj0*bandTile
+		i1, j1 := min(ti1*bandTile, l.NX), min(tj1*bandTile, l.NY)
+		x0, y0 := l.X0+float64(i0)*l.H, l.Y0+float64(j0)*l.H
+		x1, y1 := l.X0+float64(i1-1)*l.H, l.Y0+float64(j1-1)*l.H
+		mark := len(w.arena)
+		defer func() { w.arena = w.arena[:mark] }()
+		cand, lb2, ub2 := w.eucBounds(q, cand, x0, y0, x1, y1)
+		lb, ub := math.Sqrt(lb2), math.Sqrt(ub2)
+		// Bounds of sd over the tile, and its sign where uniform.
+		uniform := 0.0 // +1 inside, −1 outside, 0 unknown
+		sdlo, sdhi := -ub, ub
+		if lb > 0 {
+			uniform = -1
+			sdlo, sdhi = -ub, -lb
+			if rows.inside(j0, x0) {
+				uniform = 1
+				sdlo, sdhi = lb, ub
+			}
+		}
+		var s int8
+		switch {
+		case sdlo-delta > 2*l.H:
+			s = 1
+		case sdhi-delta < -2*l.H:
+			s = -1
+		}
+		if s != 0 {
+			for tj := tj0; tj < tj1; tj++ {
+				for ti := ti0; ti < ti1; ti++ {
+					f.sign[tj*tnx+ti] = s
 				}
 			}
-			for j := tj; j < j1; j++ {
-				y := l.Y0 + float64(j)*l.H
-				for i := ti; i < i1; i++ {
-					k := l.Index(i, j)
-					switch {
-					case sdlo-delta > 2*l.H:
-						phi[k] = far
-						continue
-					case sdhi-delta < -2*l.H:
-						phi[k] = -far
-						continue
-					}
-					x := l.X0 + float64(i)*l.H
-					d2 := math.Inf(1)
-					for _, c := range cand {
-						d2 = min(d2, q.segs[c].dist2(x, y))
-					}
-					sd := math.Sqrt(d2)
-					if uniform < 0 || (uniform == 0 && !rows.inside(j, x)) {
-						sd = -sd
-					}
-					phi[k] = sd - delta
+			return
+		}
+		if ti1-ti0 > 1 || tj1-tj0 > 1 {
+			tim, tjm := (ti0+ti1+1)/2, (tj0+tj1+1)/2
+			for _, c := range [4][4]int{{ti0, tim, tj0, tjm}, {tim, ti1, tj0, tjm}, {ti0, tim, tjm, tj1}, {tim, ti1, tjm, tj1}} {
+				if c[0] < c[1] && c[2] < c[3] {
+					walk(c[0], c[1], c[2], c[3], cand)
 				}
 			}
-			w.arena = w.arena[:mark]
+			return
+		}
+		f.slot[tj0*tnx+ti0] = int32(len(f.vals) / (bandTile * bandTile))
+		base := len(f.vals)
+		f.vals = slices.Grow(f.vals, bandTile*bandTile)[:base+bandTile*bandTile]
+		for j := j0; j < j1; j++ {
+			y := l.Y0 + float64(j)*l.H
+			for i := i0; i < i1; i++ {
+				x := l.X0 + float64(i)*l.H
+				d2 := math.Inf(1)
+				for _, c := range cand {
+					d2 = min(d2, q.segs[c].dist2(x, y))
+				}
+				sd := math.Sqrt(d2)
+				if uniform < 0 || (uniform == 0 && !rows.inside(j, x)) {
+					sd = -sd
+				}
+				f.vals[base+(j-j0)*bandTile+(i-i0)] = sd - delta
+			}
 		}
 	}
-	return phi
+	walk(0, tnx, 0, tny, w.all(len(q.segs)))
+	return f
 }
 
 // marchLoops traces the closed loops of φ = 0 (φ ≥ 0 inside) by marching
 // squares, each counter-clockwise (inside on the left). center gives the
 // exact φ at a point, for saddle cells. φ must be negative on the
-// lattice's border.
-func marchLoops(l grid.Lattice, phi []float64, center func(geom.Vec2) float64) [][]geom.Vec2 {
+// lattice's border. Only cells with a corner in a stored tile are visited:
+// a cell that φ = 0 crosses has every corner within √2 cells of the level
+// set, so in stored tiles. Loops are listed in the order of their first
+// lattice edge, each starting there, so the result does not depend on
+// anything but φ.
+func marchLoops(phi *bandField, center func(geom.Vec2) float64) [][]geom.Vec2 {
+	l := phi.lat
 	// Edge ids: 2·k for node k → k+1 (horizontal), 2·k+1 for k → k+NX.
 	point := func(id int) geom.Vec2 {
 		k := id / 2
@@ -149,71 +215,78 @@ func marchLoops(l grid.Lattice, phi []float64, center func(geom.Vec2) float64) [
 		if id%2 == 1 {
 			m = k + l.NX
 		}
-		a, b := phi[k], phi[m]
+		a, b := phi.at(k%l.NX, k/l.NX), phi.at(m%l.NX, m/l.NX)
 		pa, pb := l.Node(k%l.NX, k/l.NX), l.Node(m%l.NX, m/l.NX)
 		return pa.Lerp(pb, a/(a-b))
 	}
-	next := map[int]int{}
-	for cj := 0; cj+1 < l.NY; cj++ {
-		for ci := 0; ci+1 < l.NX; ci++ {
-			k := l.Index(ci, cj)
-			c := [4]int{k, k + 1, k + 1 + l.NX, k + l.NX} // counter-clockwise corners
-			e := [4]int{2 * k, 2*(k+1) + 1, 2*(k+l.NX) + 0, 2*k + 1}
-			var in [4]bool
-			code := 0
-			for m := range 4 {
-				in[m] = phi[c[m]] >= 0
-				if in[m] {
-					code |= 1 << m
-				}
-			}
-			if code == 0 || code == 15 {
+	type link struct{ from, to int }
+	var links []link
+	for tj := 0; tj < phi.tny; tj++ {
+		for ti := 0; ti < phi.tnx; ti++ {
+			if phi.sign[tj*phi.tnx+ti] != 0 {
 				continue
 			}
-			if code == 5 || code == 10 {
-				joined := center(l.Node(ci, cj).Add(geom.Vec2{X: l.H / 2, Y: l.H / 2})) >= 0
-				switch {
-				case code == 5 && joined:
-					next[e[0]], next[e[2]] = e[1], e[3]
-				case code == 5:
-					next[e[0]], next[e[2]] = e[3], e[1]
-				case joined:
-					next[e[1]], next[e[3]] = e[2], e[0]
-				default:
-					next[e[1]], next[e[3]] = e[0], e[2]
+			for cj := tj * bandTile; cj < min((tj+1)*bandTile, l.NY-1); cj++ {
+				for ci := ti * bandTile; ci < min((ti+1)*bandTile, l.NX-1); ci++ {
+					k := l.Index(ci, cj)
+					e := [4]int{2 * k, 2*(k+1) + 1, 2*(k+l.NX) + 0, 2*k + 1}
+					// Counter-clockwise corners 00, 10, 11, 01.
+					v := [4]float64{phi.at(ci, cj), phi.at(ci+1, cj), phi.at(ci+1, cj+1), phi.at(ci, cj+1)}
+					var in [4]bool
+					code := 0
+					for m := range 4 {
+						in[m] = v[m] >= 0
+						if in[m] {
+							code |= 1 << m
+						}
+					}
+					if code == 0 || code == 15 {
+						continue
+					}
+					if code == 5 || code == 10 {
+						joined := center(l.Node(ci, cj).Add(geom.Vec2{X: l.H / 2, Y: l.H / 2})) >= 0
+						switch {
+						case code == 5 && joined:
+							links = append(links, link{e[0], e[1]}, link{e[2], e[3]})
+						case code == 5:
+							links = append(links, link{e[0], e[3]}, link{e[2], e[1]})
+						case joined:
+							links = append(links, link{e[1], e[2]}, link{e[3], e[0]})
+						default:
+							links = append(links, link{e[1], e[0]}, link{e[3], e[2]})
+						}
+						continue
+					}
+					// One run of inside corners: it leaves the cell across the
+					// edge after its last corner and enters across the edge
+					// before its first.
+					var exit, entry int
+					for m := range 4 {
+						if in[m] && !in[(m+1)%4] {
+							exit = e[m]
+						}
+						if !in[m] && in[(m+1)%4] {
+							entry = e[m]
+						}
+					}
+					links = append(links, link{exit, entry})
 				}
-				continue
 			}
-			// One run of inside corners: it leaves the cell across the
-			// edge after its last corner and enters across the edge
-			// before its first.
-			var exit, entry int
-			for m := range 4 {
-				if in[m] && !in[(m+1)%4] {
-					exit = e[m]
-				}
-				if !in[m] && in[(m+1)%4] {
-					entry = e[m]
-				}
-			}
-			next[exit] = entry
 		}
 	}
+	slices.SortFunc(links, func(a, b link) int { return cmp.Compare(a.from, b.from) })
 	var loops [][]geom.Vec2
-	seen := map[int]bool{}
-	for start := range next {
-		if seen[start] {
-			continue
-		}
+	seen := make([]bool, len(links))
+	for s := range links {
 		var loop []geom.Vec2
-		for id := start; !seen[id]; {
-			seen[id] = true
-			loop = append(loop, point(id))
-			n, ok := next[id]
+		for n := s; !seen[n]; {
+			seen[n] = true
+			loop = append(loop, point(links[n].from))
+			m, ok := slices.BinarySearchFunc(links, links[n].to, func(a link, id int) int { return cmp.Compare(a.from, id) })
 			if !ok {
 				break
 			}
-			id = n
+			n = m
 		}
 		if len(loop) >= 3 {
 			loops = append(loops, loop)
