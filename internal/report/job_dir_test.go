@@ -2,6 +2,7 @@ package report
 
 import (
 	"bytes"
+	"context"
 	"encoding/csv"
 	"encoding/json"
 	"errors"
@@ -13,47 +14,29 @@ import (
 	"slices"
 	"strconv"
 	"strings"
-	"sync"
 	"testing"
 
+	"github.com/dugout-estimating/dugout/internal/estimate"
 	"github.com/dugout-estimating/dugout/internal/geom"
 	"github.com/dugout-estimating/dugout/internal/landxml"
 	"github.com/dugout-estimating/dugout/internal/reftest"
+	"github.com/dugout-estimating/dugout/internal/sitefile"
 )
 
 // demoFolderNames are the files of the demo's report folder, in order.
 var demoFolderNames = []string{"report.html", "plan.svg", "section-a.svg", "section-b.svg", "contours-existing.geojson",
 	"contours-design.geojson", "contours-cutfill.geojson", "quantities.json", "quantities.csv", "stakeout.csv", "design-surface.xml"}
 
-var demoFolder struct {
-	once  sync.Once
-	dir   string
-	files []string
-	err   error
-}
-
-// demoReportDir writes the demo's report folder once per test binary.
+// demoReportDir writes the demo's report folder into a temporary folder
+// of the test.
 func demoReportDir(tb testing.TB) (string, []string) {
 	tb.Helper()
-	r := demoResult(tb)
-	demoFolder.once.Do(func() {
-		demoFolder.dir, demoFolder.err = os.MkdirTemp("", "report-demo-")
-		if demoFolder.err == nil {
-			demoFolder.files, demoFolder.err = WriteReportDir(demoFolder.dir, r, ReportOptions{Date: demoDate, Footer: "dugout (test)"})
-		}
-	})
-	if demoFolder.err != nil {
-		tb.Fatalf("WriteReportDir: %v", demoFolder.err)
+	dir := tb.TempDir()
+	files, err := WriteReportDir(dir, demoResult(tb), ReportOptions{Date: demoDate, Footer: "dugout (test)"})
+	if err != nil {
+		tb.Fatalf("WriteReportDir: %v", err)
 	}
-	return demoFolder.dir, demoFolder.files
-}
-
-func TestMain(m *testing.M) {
-	code := m.Run()
-	if demoFolder.dir != "" {
-		os.RemoveAll(demoFolder.dir)
-	}
-	os.Exit(code)
+	return dir, files
 }
 
 func TestWriteReportDir_Files(t *testing.T) {
@@ -360,5 +343,54 @@ func BenchmarkWriteReportDirDemo(b *testing.B) {
 		if _, err := WriteReportDir(dir, r, ReportOptions{Date: demoDate}); err != nil {
 			b.Fatal(err)
 		}
+	}
+}
+
+func TestWriteReportDir_SiteSections(t *testing.T) {
+	// The demo with a section line of its own, given in the survey's
+	// coordinates (ft, total-station frame) across the pond from west to
+	// east, and the survey points shown on the plan.
+	s, err := sitefile.Load(demoSitePath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, set := range []string{"report.sections=[[1028.0, 5038.0, 1057.0, 5040.0]]", "report.show_points=true"} {
+		if err := s.Set(set); err != nil {
+			t.Fatal(err)
+		}
+	}
+	j, err := estimate.FromSite(s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := estimate.Run(context.Background(), j)
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	files, err := WriteReportDir(dir, r, ReportOptions{Date: demoDate})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !slices.Contains(files, filepath.Join(dir, "section-c.svg")) {
+		t.Errorf("no section-c.svg among %q", files)
+	}
+	sec, _ := os.ReadFile(filepath.Join(dir, "section-c.svg"))
+	if !bytes.Contains(sec, []byte("Section C–C&#39;")) {
+		t.Error("section-c.svg is not section C–C'")
+	}
+	plan, _ := os.ReadFile(filepath.Join(dir, "plan.svg"))
+	if !bytes.Contains(plan, []byte(`class="survey-points"`)) || !bytes.Contains(plan, []byte(">403<")) {
+		t.Error("the plan does not show the survey points (point 403 is on the pond outline)")
+	}
+
+	// A section line with an odd count of numbers is refused, naming it.
+	if err := s.Set("report.sections=[[1028.0, 5038.0, 1057.0]]"); err != nil {
+		t.Fatal(err)
+	}
+	_, err = WriteReportDir(t.TempDir(), r, ReportOptions{Date: demoDate})
+	var ve *ValueError
+	if !errors.As(err, &ve) || ve.Item != "report.sections[0]" {
+		t.Errorf("odd section line: %v, want a *ValueError for report.sections[0]", err)
 	}
 }
