@@ -219,7 +219,7 @@ func renderEstimate(app *App, r *estimate.Result, o *estimateOptions) error {
 		if err := report.WriteJSON(app.IO.Out, r); err != nil {
 			return err
 		}
-	} else if err := report.WriteSummary(app.IO.Out, r, report.SummaryOptions{Date: date, WarningsElsewhere: !app.Quiet}); err != nil {
+	} else if err := report.WriteSummary(app.IO.Out, r, report.SummaryOptions{Date: date, WarningsElsewhere: true}); err != nil {
 		return err
 	}
 	if o.report == "" {

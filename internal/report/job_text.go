@@ -115,7 +115,7 @@ func WriteSummary(w io.Writer, r *estimate.Result, opts SummaryOptions) error {
 	if n := len(r.Warnings); n > 0 {
 		if opts.WarningsElsewhere {
 			t.heading("Data warnings")
-			t.note(fmt.Sprintf("%d %s, printed on stderr.", n, plural(n, "warning", "warnings")))
+			t.note(fmt.Sprintf("%d %s about the data, reported apart from this summary.", n, plural(n, "warning", "warnings")))
 		} else {
 			t.heading("Data warnings")
 			for _, wn := range r.Warnings {
