@@ -143,6 +143,8 @@ type builder struct {
 	warnings []string
 	autoW    *float64
 	boxes    map[float64]workArea
+	ranges   map[geom.Box]groundRange
+	quantum  float64 // work-box quantum, m (0 until first needed)
 }
 
 func (b *builder) warnf(format string, args ...any) {
@@ -174,8 +176,6 @@ type level struct {
 	gmin   float64
 	gmax   float64
 	hasNaN bool // some node is off the surveyed surface
-	// For LevelBalance: the level found here and on the coarser lattice.
-	wFound, wBefore float64
 }
 
 // terrainRange returns the lowest and highest ground sampled on a coarse
@@ -206,20 +206,23 @@ func (b *builder) terrainRange(box geom.Box) (lo, hi float64, ok bool) {
 
 // workBox bounds the work area for water level w: the zones' reach down
 // to the lowest and up to the highest ground sampled in the box, grown
-// until it no longer changes.
+// until it no longer changes. Boxes are snapped outward to whole
+// multiples of a quantum (a power of two near 1/64 of the rim set's
+// extent), so the growth settles in a few steps and nearby water levels
+// share their boxes and the ground ranges sampled over them.
 func (b *builder) workBox(w float64) (box geom.Box, gmin, gmax float64, err error) {
 	if r, ok := b.boxes[w]; ok {
 		return r.box, r.gmin, r.gmax, nil
 	}
-	box = b.zs.rimBox()
+	box = b.snap(b.zs.rimBox())
 	for range 30 {
-		lo, hi, ok := b.terrainRange(box)
+		lo, hi, ok := b.rangeOver(box)
 		if !ok {
 			return box, 0, 0, fmt.Errorf("%w: the zones (x %.2f to %.2f m, y %.2f to %.2f m) lie outside the surveyed surface",
 				ErrOffSurvey, box.Min.X, box.Max.X, box.Min.Y, box.Max.Y)
 		}
 		gmin, gmax = lo, hi
-		nb := b.zs.workBox(w, lo, hi, b.berm.crest, b.berm.slope).Union(box)
+		nb := b.snap(b.zs.workBox(w, lo, hi, b.berm.crest, b.berm.slope)).Union(box)
 		if nb == box {
 			break
 		}
@@ -236,6 +239,40 @@ func (b *builder) workBox(w float64) (box geom.Box, gmin, gmax float64, err erro
 type workArea struct {
 	box        geom.Box
 	gmin, gmax float64
+}
+
+// snap returns the smallest box with corners on whole multiples of the
+// work-box quantum that holds box. The quantum is a power of two, so the
+// corners are exact.
+func (b *builder) snap(box geom.Box) geom.Box {
+	if b.quantum == 0 {
+		rb := b.zs.rimBox()
+		b.quantum = math.Exp2(math.Floor(math.Log2(max(rb.Width(), rb.Height()) / 64)))
+	}
+	q := b.quantum
+	return geom.Box{
+		Min: geom.Vec2{X: math.Floor(box.Min.X/q) * q, Y: math.Floor(box.Min.Y/q) * q},
+		Max: geom.Vec2{X: math.Ceil(box.Max.X/q) * q, Y: math.Ceil(box.Max.Y/q) * q},
+	}
+}
+
+// groundRange is a memoised result of [builder.terrainRange].
+type groundRange struct {
+	lo, hi float64
+	ok     bool
+}
+
+// rangeOver is [builder.terrainRange] remembered by box.
+func (b *builder) rangeOver(box geom.Box) (lo, hi float64, ok bool) {
+	if r, found := b.ranges[box]; found {
+		return r.lo, r.hi, r.ok
+	}
+	lo, hi, ok = b.terrainRange(box)
+	if b.ranges == nil {
+		b.ranges = map[geom.Box]groundRange{}
+	}
+	b.ranges[box] = groundRange{lo, hi, ok}
+	return lo, hi, ok
 }
 
 // build samples the ground and prepares the field on a lattice of cell h

@@ -91,6 +91,13 @@ type bandSums struct {
 // few thousand terms of one sign, so the relative rounding stays near
 // 1e-13) and rows are added with compensation, band by band.
 func (fd *field) evaluate(w float64, g, d []float64, b berm) volumes {
+	fd.grade(w, g, d, b)
+	return fd.integrate(w, g, d, b)
+}
+
+// grade fills d with the finished grade for water level w over existing
+// ground g.
+func (fd *field) grade(w float64, g, d []float64, b berm) {
 	zs := fd.zs
 	l := fd.lat
 	forBands(l.NY, func(_, j0, j1 int) {
@@ -98,6 +105,13 @@ func (fd *field) evaluate(w float64, g, d []float64, b berm) volumes {
 			d[k] = zs.finished(w, fd.e[k], fd.rho[k], g[k], b)
 		}
 	})
+}
+
+// integrate returns the cut and fill between g and the finished grade d
+// that [field.grade] made for water level w.
+func (fd *field) integrate(w float64, g, d []float64, b berm) volumes {
+	zs := fd.zs
+	l := fd.lat
 	nb := (l.NY - 1 + bandRows - 1) / bandRows
 	nz := len(zs.z)
 	sums := make([]bandSums, nb)

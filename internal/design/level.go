@@ -106,20 +106,36 @@ const balanceTol = 1e-5
 // FillPerCut × cut equals fill. k·cut − fill decreases as W rises (every
 // node's finished grade rises with W), so a sign change brackets a single
 // root, which Brent's method finds. The first lattice searches from the
-// auto level (rim at the lowest ground on the rim line, where there is no
-// berm) upward to the level that puts the deepest floor at the highest
-// ground of the work area (no cut is left there); finer lattices search
-// near the previous answer.
+// auto level (rim at the lowest existing ground on the rim line, where
+// there is no berm) upward to the level that puts the deepest floor at the
+// highest ground of the work area (no cut is left there). A finer lattice
+// starts from the coarser one's root, which is already close: a Newton
+// step with the slope the volumes give (below) and a little more lands
+// just past the root, so the bracket is barely wider than the step, and
+// Brent's method closes it in two or three more evaluations.
+//
+// The slope: where the finished grade moves with W it moves one for one,
+// so d(cut)/dW = −(cut area) and d(fill)/dW = fill area, except in cells
+// touching ground the design leaves alone; −(k·cut area + fill area) is
+// then the slope of k·cut − fill or a little steeper, and a step with it
+// falls short of the root by a few per cent of the step.
 func (b *builder) balance(h float64, prev *level) (*level, error) {
 	k := b.p.FillPerCut
 	var lv *level
-	eval := func(w float64) (float64, error) {
-		var err error
+	// seen holds the volumes of the levels evaluated on lv's lattice, so
+	// that the root, once found, needs only its finished grade again.
+	var seen map[float64]volumes
+	var seenOn *level
+	eval := func(w float64) (f, slope float64, err error) {
 		lv, err = b.evalAt(lv, h, w)
 		if err != nil {
-			return 0, fmt.Errorf("%w: at water level %.3f m: %w", ErrNoBalance, w, err)
+			return 0, 0, fmt.Errorf("%w: at water level %.3f m: %w", ErrNoBalance, w, err)
 		}
-		return k*lv.v.cut - lv.v.fill, nil
+		if seenOn != lv {
+			seen, seenOn = map[float64]volumes{}, lv
+		}
+		seen[w] = lv.v
+		return k*lv.v.cut - lv.v.fill, -(k*lv.v.cutArea + lv.v.fillArea), nil
 	}
 	var lo, hi, flo, fhi float64
 	if prev == nil {
@@ -127,7 +143,7 @@ func (b *builder) balance(h float64, prev *level) (*level, error) {
 		if err != nil {
 			return nil, fmt.Errorf("%w: the search starts at the auto level: %w", ErrNoBalance, err)
 		}
-		if flo, err = eval(w0); err != nil {
+		if flo, _, err = eval(w0); err != nil {
 			return nil, err
 		}
 		if flo <= 0 {
@@ -142,7 +158,7 @@ func (b *builder) balance(h float64, prev *level) (*level, error) {
 		step := max(0.05, b.zs.maxDepth/4)
 		for {
 			hi = min(lo+step, top)
-			if fhi, err = eval(hi); err != nil {
+			if fhi, _, err = eval(hi); err != nil {
 				return nil, err
 			}
 			if fhi < 0 {
@@ -156,28 +172,14 @@ func (b *builder) balance(h float64, prev *level) (*level, error) {
 			top = max(top, lv.gmax+b.zs.maxDepth)
 		}
 	} else {
-		d := max(0.005, 4*math.Abs(prev.w-prev.wPrev()))
 		var err error
-		for {
-			lo, hi = prev.w-d, prev.w+d
-			if flo, err = eval(lo); err != nil {
-				return nil, err
-			}
-			if fhi, err = eval(hi); err != nil {
-				return nil, err
-			}
-			if flo >= 0 && fhi <= 0 {
-				break
-			}
-			if d > 100 {
-				return nil, fmt.Errorf("%w: lost the bracket near %.3f m", ErrNoBalance, prev.w)
-			}
-			d *= 4
+		if lo, hi, flo, fhi, err = b.bracketNear(prev.w, eval); err != nil {
+			return nil, err
 		}
 	}
 	var ferr error
 	w := brent(func(w float64) float64 {
-		v, err := eval(w)
+		v, _, err := eval(w)
 		if err != nil && ferr == nil {
 			ferr = err
 		}
@@ -186,23 +188,58 @@ func (b *builder) balance(h float64, prev *level) (*level, error) {
 	if ferr != nil {
 		return nil, ferr
 	}
-	if _, err := eval(w); err != nil {
+	if v, ok := seen[w]; ok && seenOn == lv {
+		if lv.w != w {
+			lv.fd.grade(w, lv.g, lv.d, b.berm)
+			lv.v, lv.w = v, w
+		}
+	} else if _, _, err := eval(w); err != nil {
 		return nil, err
-	}
-	lv.wFound = w
-	if prev != nil {
-		lv.wBefore = prev.w
-	} else {
-		lv.wBefore = math.NaN()
 	}
 	return lv, nil
 }
 
-func (lv *level) wPrev() float64 {
-	if lv.wBefore != lv.wBefore { // NaN: first level
-		return lv.w + 0.01
+// bracketNear returns levels lo < hi with f(lo) ≥ 0 ≥ f(hi) near w0, the
+// root found on a coarser lattice, for a decreasing f that also returns
+// an estimate of its slope (see [builder.balance]). It takes a Newton
+// step from w0, lengthened so that it crosses the root (the slope
+// overstates), and doubles the step while the sign stays.
+func (b *builder) bracketNear(w0 float64, f func(float64) (float64, float64, error)) (lo, hi, flo, fhi float64, err error) {
+	f0, s0, err := f(w0)
+	if err != nil {
+		return 0, 0, 0, 0, err
 	}
-	return lv.wBefore
+	if f0 == 0 {
+		return w0, w0, 0, 0, nil
+	}
+	dir := 1.0 // towards the root: f decreases, so up where f > 0
+	if f0 < 0 {
+		dir = -1
+	}
+	step := balanceTol
+	if s0 < 0 {
+		// The slope is a few per cent steep (see balance), so the Newton
+		// step is lengthened by 5 % and by half the tolerance.
+		step = max(step, 1.05*math.Abs(f0/s0)+balanceTol/2)
+	}
+	for {
+		w1 := w0 + dir*step
+		f1, _, err := f(w1)
+		if err != nil {
+			return 0, 0, 0, 0, err
+		}
+		if (f1 > 0) != (f0 > 0) || f1 == 0 {
+			if dir > 0 {
+				return w0, w1, f0, f1, nil
+			}
+			return w1, w0, f1, f0, nil
+		}
+		if step > 100 {
+			return 0, 0, 0, 0, fmt.Errorf("%w: lost the bracket near %.3f m", ErrNoBalance, w0)
+		}
+		w0, f0 = w1, f1
+		step *= 2
+	}
 }
 
 // brent returns a zero of f in [a, b], where f(a) = fa and f(b) = fb have
