@@ -53,6 +53,7 @@ func newRootCmd(app *App) *cobra.Command {
 		newEstimateCmd(app),
 		newCompareCmd(app),
 		newContoursCmd(app),
+		newDemoCmd(app),
 		newVersionCmd(app),
 		newExitCodesTopic(),
 	)

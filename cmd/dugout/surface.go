@@ -10,9 +10,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
-	"regexp"
 	"slices"
-	"strconv"
 	"strings"
 	"text/tabwriter"
 
@@ -888,11 +886,6 @@ func andList(words []string) string {
 	return strings.Join(words[:len(words)-1], ", ") + " and " + words[len(words)-1]
 }
 
-// dupWarning matches the surface builder's warning about merged duplicates
-// whose elevations disagree (tin's merge step), whose points are indices
-// into the slice handed to tin.Build and whose lengths are metres.
-var dupWarning = regexp.MustCompile(`^duplicate points ([0-9]+(?:, [0-9]+)*)( and [0-9]+ more)?(.*) differ in elevation by ([0-9.]+) m \(more than ([0-9.]+) m\); kept the (\w+), (-?[0-9.]+) m$`)
-
 // allWarnings returns the warnings of reading and, once built, of the
 // surface, as printed.
 func (g *groundSource) allWarnings() []string {
@@ -915,6 +908,9 @@ func (g *groundSource) printWarnings(app *App) {
 	}
 }
 
+// maxNamedShots is how many shots a warning names before "and N more".
+const maxNamedShots = 10
+
 // tinWarning writes a warning of the surface builder for the user: shots
 // named by id and line instead of by index, lengths in the survey's units,
 // and its place in world coordinates. A message of another form is kept as
@@ -923,21 +919,20 @@ func (g *groundSource) tinWarning(w tin.Warning) string {
 	f := g.formatter()
 	x, y := g.world(w.At)
 	msg := w.Msg
-	if m := dupWarning.FindStringSubmatch(msg); m != nil {
+	if c := w.Conflict; c != nil {
 		var who []string
-		for _, s := range strings.Split(m[1], ", ") {
-			i, _ := strconv.Atoi(s)
+		for k, i := range c.Points {
+			if k == maxNamedShots {
+				who = append(who, fmt.Sprintf("%d more", len(c.Points)-k))
+				break
+			}
 			who = append(who, g.shotName(i))
 		}
-		dz, _ := strconv.ParseFloat(m[4], 64)
-		tol, _ := strconv.ParseFloat(m[5], 64)
-		z, _ := strconv.ParseFloat(m[7], 64)
-		list := strings.Join(who, ", ") + m[2]
-		if m[2] == "" {
-			list = andList(who)
+		for _, b := range c.Breaklines {
+			who = append(who, "breakline "+b)
 		}
-		msg = fmt.Sprintf("duplicate shots %s%s differ in elevation by %s (more than %s); kept the %s, %s",
-			list, m[3], f.length(dz), f.length(tol), m[6], f.length(z))
+		msg = fmt.Sprintf("duplicate shots %s differ in elevation by %s (more than %s); kept the %s, %s",
+			andList(who), f.length(c.SpreadM), f.length(c.TolM), c.Policy, f.length(c.KeptZM))
 	}
 	return fmt.Sprintf("%s (near E %s, N %s %s)", msg, f.coord(x), f.coord(y), g.units)
 }

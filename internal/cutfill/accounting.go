@@ -3,6 +3,8 @@ package cutfill
 import (
 	"fmt"
 	"math"
+
+	"github.com/dugout-estimating/dugout/internal/units"
 )
 
 // Inputs are the quantities and settings of one earthwork account. Volumes
@@ -87,6 +89,11 @@ const loadRoundingTol = 1e-9
 // A balanced job leaves such crumbs from the balance search alone.
 const SpreadOnSiteFraction = 0.05
 
+// balancedM3 is the left-over below which a job counts as balanced without
+// remark: 0.01 m³ is a bucketful, below the resolution of any earthwork
+// estimate.
+const balancedM3 = 0.01
+
 // Compute runs the earthwork account for in. It returns an [*InputError]
 // wrapping [ErrNegative], [ErrNotPositive], [ErrNonFinite] or
 // [ErrHeapBelowStruck] for a negative or non-finite volume, area, depth or
@@ -116,10 +123,10 @@ func Compute(in Inputs) (Result, error) {
 	r.ImportBankM3 = r.FillBankNeedM3 - r.ReusedBankM3
 	r.HaulLooseM3 = r.HaulBankM3 * in.Soil.Swell
 	r.ImportLooseM3 = r.ImportBankM3 * in.Soil.Swell
-	if r.ImportBankM3 > 0 {
+	if r.ImportLooseM3 >= balancedM3 {
 		r.Notes = append(r.Notes, fmt.Sprintf(
-			"fill needs more than the cut supplies: import %.2f m³ bank (%.2f m³ loose) of %s; import loads are not counted",
-			r.ImportBankM3, r.ImportLooseM3, soilName(in.Soil)))
+			"fill needs more than the cut supplies: import %.2f m³ (%.1f yd³) bank, %.2f m³ (%.1f yd³) loose, of %s; import loads are not counted",
+			r.ImportBankM3, r.ImportBankM3/units.CubicYard, r.ImportLooseM3, r.ImportLooseM3/units.CubicYard, soilName(in.Soil)))
 	}
 
 	r.TopsoilBankM3 = in.TopsoilAreaM2 * in.TopsoilDepthM
@@ -137,9 +144,12 @@ func Compute(in Inputs) (Result, error) {
 			r.Notes = append(r.Notes, "no truck given: truckloads are not counted")
 		}
 	case r.HaulLooseM3 > 0 && r.HaulLooseM3 < SpreadOnSiteFraction*r.TruckCapacityM3:
+		if r.HaulLooseM3 < balancedM3 {
+			break // crumbs of the balance search: nothing to say
+		}
 		r.Notes = append(r.Notes, fmt.Sprintf(
-			"the %.2f m³ loose left over is under %.0f %% of a load: spread it on site, no truck counted",
-			r.HaulLooseM3, 100*SpreadOnSiteFraction))
+			"the %.2f m³ (%.2f yd³) loose left over is under %.0f %% of a load: spread it on site, no truck counted",
+			r.HaulLooseM3, r.HaulLooseM3/units.CubicYard, 100*SpreadOnSiteFraction))
 	case r.HaulLooseM3 > 0:
 		loads := r.HaulLooseM3 / r.TruckCapacityM3
 		r.Truckloads = int(math.Ceil(loads * (1 - loadRoundingTol)))

@@ -4,6 +4,8 @@ import (
 	"context"
 	"fmt"
 	"os"
+	"path/filepath"
+	"strings"
 	"time"
 
 	"github.com/dugout-estimating/dugout/internal/cutfill"
@@ -12,6 +14,7 @@ import (
 	"github.com/dugout-estimating/dugout/internal/survey"
 	"github.com/dugout-estimating/dugout/internal/takeoff"
 	"github.com/dugout-estimating/dugout/internal/tin"
+	"github.com/dugout-estimating/dugout/internal/units"
 )
 
 // Result is one estimate: every step's output, in SI units and the local
@@ -111,9 +114,11 @@ func (r *Result) buildTerrain() error {
 		opt.Boundary = append(opt.Boundary, p.Ring)
 	}
 	pts := make([]geom.Vec3, 0, len(set.Points))
-	for _, p := range set.Points {
+	src := make([]int, 0, len(set.Points)) // TIN input index -> survey point
+	for i, p := range set.Points {
 		if p.HasZ() {
 			pts = append(pts, p.P)
+			src = append(src, i)
 		}
 	}
 	s, err := tin.Build(pts, opt)
@@ -122,9 +127,45 @@ func (r *Result) buildTerrain() error {
 	}
 	r.Terrain = s
 	for _, w := range s.Warnings() {
-		r.Warnings = append(r.Warnings, "surface: "+w.Msg)
+		r.Warnings = append(r.Warnings, "surface: "+r.tinWarning(w, src))
 	}
 	return nil
+}
+
+// maxNamedShots is how many shots a warning names before "and N more".
+const maxNamedShots = 10
+
+// tinWarning words a surface warning for the estimator: shots by their id
+// and line, lengths in the job's units.
+func (r *Result) tinWarning(w tin.Warning, src []int) string {
+	c := w.Conflict
+	if c == nil {
+		return w.Msg
+	}
+	var who []string
+	for k, i := range c.Points {
+		if k == maxNamedShots {
+			who = append(who, fmt.Sprintf("%d more", len(c.Points)-k))
+			break
+		}
+		p := r.Survey.Points[src[i]]
+		who = append(who, fmt.Sprintf("%s (%s line %d)", p.ID, filepath.Base(p.File), p.Line))
+	}
+	for _, b := range c.Breaklines {
+		who = append(who, "breakline "+b)
+	}
+	u := r.Job.OutUnits
+	return fmt.Sprintf("duplicate shots %s differ in elevation by %s (more than %s); kept the %s, %s",
+		strings.Join(who, ", "), lengthText(c.SpreadM, u), lengthText(c.TolM, u), c.Policy, lengthText(c.KeptZM, u))
+}
+
+// lengthText writes a length in metres in the job's unit family, for
+// warnings (the report formats its own tables).
+func lengthText(m float64, u units.System) string {
+	if u.IsImperial() {
+		return fmt.Sprintf("%.2f ft", m/units.Foot)
+	}
+	return fmt.Sprintf("%.3f m", m)
 }
 
 func (r *Result) makeZones() error {

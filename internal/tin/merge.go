@@ -236,6 +236,8 @@ func (pr *prepared) emit(in *input, g []int32, opt *Options, tol float64, warned
 				Msg: fmt.Sprintf("duplicate %s differ in elevation by %.3f m (more than %g m); kept the %s, %.3f m",
 					who.String(), zmax-zmin, tol, opt.Duplicates, z),
 				At: geom.Vec2{X: at.X, Y: at.Y},
+				Conflict: &Conflict{Points: idx, Breaklines: names, SpreadM: zmax - zmin, TolM: tol,
+					KeptZM: z, Policy: opt.Duplicates},
 			})
 		}
 	}

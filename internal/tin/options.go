@@ -127,4 +127,18 @@ const maxFinite = 1.7976931348623157e308
 type Warning struct {
 	Msg string
 	At  geom.Vec2
+	// Conflict describes a duplicate group whose elevations spread more
+	// than the conflict tolerance, so that callers can name the shots in
+	// their own words and units; nil for other warnings.
+	Conflict *Conflict
+}
+
+// Conflict is a merged duplicate group whose elevations disagree.
+type Conflict struct {
+	Points     []int    // indices into the points given to Build
+	Breaklines []string // names of breaklines with a vertex in the group
+	SpreadM    float64  // highest minus lowest elevation in the group
+	TolM       float64  // the conflict tolerance
+	KeptZM     float64  // the elevation kept
+	Policy     DupPolicy
 }
