@@ -92,6 +92,11 @@ type field struct {
 
 	floorRows []rowIndex // per zone
 	rimRows   []rowIndex // per sharp zone (empty otherwise)
+
+	// band, when above 0, makes a rim-line field (see newRimField): only
+	// tiles where e may come within band of the freeboard are evaluated,
+	// for e and own alone; the other nodes keep e = NaN.
+	band float64
 }
 
 // leafSize is the largest tile side, in nodes, whose nodes are evaluated
@@ -118,6 +123,41 @@ func newField(zs *zoneSet, l grid.Lattice) *field {
 	}
 	fd.fill()
 	fd.findCrossings()
+	return fd
+}
+
+// newRimField returns the field of zs on l near the rim line {e =
+// freeboard}: e and own are computed exactly, as by [newField], at every
+// node of the tiles whose bounds let e come within two cells' rise of the
+// freeboard (2h over the steepest sloped wall); every other node has e =
+// NaN, and ρ is not computed. A lattice edge the rim line crosses between
+// nodes owned by sloped zones has both ends in such tiles, because e rises
+// by at most h/s over a cell there. Only the rim line's length is paid
+// for, not the lattice's area. zs must have a sloped zone.
+func newRimField(zs *zoneSet, l grid.Lattice) *field {
+	s := math.Inf(1)
+	for i := range zs.z {
+		if zs.z[i].kind != kindVertical {
+			s = min(s, zs.z[i].slope)
+		}
+	}
+	fd := &field{zs: zs, lat: l, band: 2 * l.H / s}
+	n := l.Len()
+	fd.e = make([]float64, n)
+	for k := range fd.e {
+		fd.e[k] = math.NaN()
+	}
+	fd.own = make([]int32, n)
+	fd.floorRows = make([]rowIndex, len(zs.z))
+	fd.rimRows = make([]rowIndex, len(zs.z))
+	for i := range zs.z {
+		z := &zs.z[i]
+		fd.floorRows[i] = newRowIndex(l, z.floor)
+		if z.kind == kindSharp {
+			fd.rimRows[i] = newRowIndex(l, z.rim)
+		}
+	}
+	fd.fill()
 	return fd
 }
 
@@ -311,13 +351,23 @@ func (w *tileWorker) tile(i0, i1, j0, j1 int, parent []zc, depth int) {
 		cur = append(cur, c)
 		bounds = append(bounds, b)
 	}
+	if fd.band > 0 {
+		// e over the tile lies between the least lower bound and eUB.
+		eLB := inf
+		for _, b := range bounds {
+			eLB = min(eLB, b.elo)
+		}
+		if f := fd.zs.freeboard; eLB > f+fd.band || eUB < f-fd.band {
+			return
+		}
+	}
 	// Keep a zone where it can give the least e or the least ρ.
 	kept := cur[:0]
 	for m := range cur {
 		c := cur[m]
 		b := bounds[m]
 		c.needE = b.elo <= eUB && b.elo < inf
-		c.needR = b.rlo <= rUB
+		c.needR = b.rlo <= rUB && fd.band == 0
 		if c.needE || c.needR {
 			kept = append(kept, c)
 		}
@@ -434,7 +484,10 @@ func (w *tileWorker) leaf(i0, i1, j0, j1 int, zs []zc) {
 				}
 			}
 			k := l.Index(i, j)
-			fd.e[k], fd.rho[k] = e, rho
+			fd.e[k] = e
+			if fd.rho != nil {
+				fd.rho[k] = rho
+			}
 			if own < 0 {
 				own = -(rown + 2)
 			}

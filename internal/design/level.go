@@ -32,7 +32,10 @@ func (b *builder) autoLevel() (float64, error) {
 	if err != nil {
 		return 0, err
 	}
-	fd := newField(zs, lat)
+	var fd *field
+	if zs.hasSloped {
+		fd = newRimField(zs, lat)
+	}
 	f := zs.freeboard
 	lowest := math.Inf(1)
 	off := geom.EmptyBox()
@@ -50,16 +53,19 @@ func (b *builder) autoLevel() (float64, error) {
 	}
 	edge := func(k, m int) {
 		a, c := fd.e[k]-f, fd.e[m]-f
-		if (a <= 0) == (c <= 0) || math.IsInf(a, 0) || math.IsInf(c, 0) || vertical(k) || vertical(m) {
+		if math.IsNaN(a) || math.IsNaN(c) || (a <= 0) == (c <= 0) || math.IsInf(a, 0) || math.IsInf(c, 0) || vertical(k) || vertical(m) {
 			return
 		}
 		t := a / (a - c)
 		p := lat.Node(k%lat.NX, k/lat.NX).Lerp(lat.Node(m%lat.NX, m/lat.NX), t)
 		visit(p)
 	}
-	for j := 0; j < lat.NY; j++ {
+	for j := 0; fd != nil && j < lat.NY; j++ {
 		for i := 0; i < lat.NX; i++ {
 			k := lat.Index(i, j)
+			if math.IsNaN(fd.e[k]) {
+				continue
+			}
 			if i+1 < lat.NX {
 				edge(k, k+1)
 			}

@@ -131,3 +131,61 @@ func TestBuild_AutoLevelOffSurvey(t *testing.T) {
 		t.Fatalf("error = %v, want the rim line off the survey", err)
 	}
 }
+
+// TestRimField_MatchesField checks the banded rim-line field of the auto
+// level against the full field: every node it computes has the full
+// field's e and owner, and every lattice edge on which the full field
+// puts a rim crossing that the auto level uses (finite ends, no vertical
+// owner) has both ends computed.
+func TestRimField_MatchesField(t *testing.T) {
+	_, _, zones := slopedYard()
+	zones = append(zones,
+		Zone{Name: "vertical L", Ring: ring(4, -3, 7, -3, 7, -1, 5, -1, 5, 1, 4, 1), DepthM: 0.5},
+		Zone{Name: "sharp", Ring: ring(-6, 2, -4, 2.5, -4.5, 4), DepthM: 0.4, WallSlope: 0.7, Corners: Sharp})
+	zs, err := newZoneSet(zones, 0.12)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f := zs.freeboard
+	for _, h := range []float64{0.125, 0.03125} {
+		l, err := gridLattice(zs.rimBox().Expand(2*h), h)
+		if err != nil {
+			t.Fatal(err)
+		}
+		full, band := newField(zs, l), newRimField(zs, l)
+		computed := 0
+		for k := range band.e {
+			if math.IsNaN(band.e[k]) {
+				continue
+			}
+			computed++
+			if band.e[k] != full.e[k] || (full.own[k] >= 0 && band.own[k] != full.own[k]) {
+				t.Fatalf("h %g node %d: rim field e %g own %d, full field %g %d", h, k, band.e[k], band.own[k], full.e[k], full.own[k])
+			}
+		}
+		used := func(k int) bool {
+			o := full.own[k]
+			return !math.IsInf(full.e[k], 0) && !(o >= 0 && zs.z[o].kind == kindVertical)
+		}
+		crossings := 0
+		for k := range full.e {
+			i, j := k%l.NX, k/l.NX
+			for _, m := range []int{k + 1, k + l.NX} {
+				if (m == k+1 && i+1 >= l.NX) || (m == k+l.NX && j+1 >= l.NY) {
+					continue
+				}
+				if (full.e[k] <= f) == (full.e[m] <= f) || !used(k) || !used(m) {
+					continue
+				}
+				crossings++
+				if math.IsNaN(band.e[k]) || math.IsNaN(band.e[m]) {
+					t.Fatalf("h %g: the rim line crosses edge %d–%d (e %g, %g) outside the rim field", h, k, m, full.e[k], full.e[m])
+				}
+			}
+		}
+		if crossings == 0 || h < 0.1 && 2*computed > l.Len() {
+			t.Errorf("h %g: %d crossings, %d of %d nodes computed: the rim field should be a band", h, crossings, computed, l.Len())
+		}
+		t.Logf("h %g: %d crossings, %d of %d nodes computed", h, crossings, computed, l.Len())
+	}
+}
