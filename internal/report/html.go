@@ -366,7 +366,7 @@ func writeStakeoutTable(h *htmlDoc, rows []StakeoutRow, sys units.System) {
 	}
 	h.el("th", "scope", "col", "Note")
 	h.raw("</tr></thead>\n<tbody>\n")
-	for _, s := range sortedStakeout(rows) {
+	for _, s := range rows {
 		h.raw("<tr>")
 		h.el("th", "scope", "row", s.ID)
 		for _, v := range []float64{s.Easting, s.Northing, s.Existing, s.Finished} {

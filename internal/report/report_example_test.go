@@ -40,6 +40,6 @@ func ExampleWriteStakeoutCSV() {
 	}
 	// Output:
 	// id,easting_ft,northing_ft,existing_ft,finished_ft,cut_fill_ft,cut_or_fill,note
-	// R2,1680918.749,16363694.340,100.453,100.394,-0.059,cut,rim
 	// R10,1680926.636,16363681.102,99.441,100.394,0.953,fill,rim
+	// R2,1680918.749,16363694.340,100.453,100.394,-0.059,cut,rim
 }

@@ -1,12 +1,10 @@
 package report
 
 import (
-	"cmp"
 	"encoding/csv"
 	"errors"
 	"fmt"
 	"io"
-	"slices"
 	"strings"
 )
 
@@ -36,9 +34,9 @@ var ErrUnitsLabel = errors.New("report: units label must be a short word of lett
 //
 //	id,easting_<u>,northing_<u>,existing_<u>,finished_<u>,cut_fill_<u>,cut_or_fill,note
 //
-// where <u> is unitsLabel (e.g. "ft", "usft", "m"). Rows are sorted by ID in
-// natural order (P2 before P10; see [naturalCompare]), ties kept in input
-// order; rows is not modified. Numbers have [stakeoutDecimals] decimals;
+// where <u> is unitsLabel (e.g. "ft", "usft", "m"). Rows are written in the
+// order given, which is the order a crew walks them (the water's edge, then
+// each zone's floor edge, then the toe or daylight line). Numbers have [stakeoutDecimals] decimals;
 // cut_or_fill is "cut", "fill" or "grade" (no change at that precision).
 //
 // It returns [ErrUnitsLabel] for a bad label, a [*ValueError] naming the row
@@ -65,7 +63,7 @@ func WriteStakeoutCSV(w io.Writer, rows []StakeoutRow, unitsLabel string) error 
 	if err := cw.Write(header); err != nil {
 		return err
 	}
-	for _, r := range sortedStakeout(rows) {
+	for _, r := range rows {
 		rec := []string{
 			csvText(r.ID),
 			fixed(r.Easting, stakeoutDecimals),
@@ -110,59 +108,4 @@ func csvText(s string) string {
 	return s
 }
 
-// sortedStakeout returns a copy of rows sorted by ID in natural order,
-// stable.
-func sortedStakeout(rows []StakeoutRow) []StakeoutRow {
-	out := slices.Clone(rows)
-	slices.SortStableFunc(out, func(a, b StakeoutRow) int { return naturalCompare(a.ID, b.ID) })
-	return out
-}
 
-// naturalCompare orders strings so that runs of digits compare by their
-// value ("P2" < "P10" < "p11"), letters case-insensitively, and otherwise
-// byte by byte; equal keys fall back to the plain byte order, so the order
-// is total. It returns −1, 0 or +1.
-func naturalCompare(a, b string) int {
-	i, j := 0, 0
-	for i < len(a) && j < len(b) {
-		ca, cb := a[i], b[j]
-		if isDigit(ca) && isDigit(cb) {
-			si := i
-			for i < len(a) && isDigit(a[i]) {
-				i++
-			}
-			sj := j
-			for j < len(b) && isDigit(b[j]) {
-				j++
-			}
-			na := strings.TrimLeft(a[si:i], "0")
-			nb := strings.TrimLeft(b[sj:j], "0")
-			if c := cmp.Compare(len(na), len(nb)); c != 0 {
-				return c
-			}
-			if c := strings.Compare(na, nb); c != 0 {
-				return c
-			}
-			continue
-		}
-		la, lb := lowerByte(ca), lowerByte(cb)
-		if la != lb {
-			return cmp.Compare(la, lb)
-		}
-		i++
-		j++
-	}
-	if c := cmp.Compare(len(a)-i, len(b)-j); c != 0 {
-		return c
-	}
-	return strings.Compare(a, b)
-}
-
-func isDigit(c byte) bool { return c >= '0' && c <= '9' }
-
-func lowerByte(c byte) byte {
-	if c >= 'A' && c <= 'Z' {
-		return c + 'a' - 'A'
-	}
-	return c
-}

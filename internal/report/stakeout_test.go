@@ -70,11 +70,12 @@ func TestWriteStakeoutCSV_OrderAndText(t *testing.T) {
 			t.Fatal("WriteStakeoutCSV reordered its input")
 		}
 	}
+	// Rows keep the order given: the order a crew walks them.
 	want := "id,easting_m,northing_m,existing_m,finished_m,cut_fill_m,cut_or_fill,note\n" +
-		"'=1+1,0.000,0.000,0.000,0.000,0.500,fill,\n" +
+		"P10,0.000,0.000,0.000,0.000,0.000,grade,\n" +
 		"P2,0.000,0.000,0.000,0.000,-0.250,cut,\"shelf, \"\"north\"\" edge\"\n" +
-		"p2,0.000,0.000,0.000,0.000,1.000,fill,\n" +
-		"P10,0.000,0.000,0.000,0.000,0.000,grade,\n"
+		"'=1+1,0.000,0.000,0.000,0.000,0.500,fill,\n" +
+		"p2,0.000,0.000,0.000,0.000,1.000,fill,\n"
 	if got := b.String(); got != want {
 		t.Errorf("WriteStakeoutCSV =\n%s\nwant\n%s", got, want)
 	}
@@ -95,33 +96,6 @@ func TestWriteStakeoutCSV_Errors(t *testing.T) {
 	var b bytes.Buffer
 	if err := WriteStakeoutCSV(&b, nil, "usft"); err != nil || strings.Count(b.String(), "\n") != 1 {
 		t.Errorf("no rows: %q, %v; want the header alone", b.String(), err)
-	}
-}
-
-func TestNaturalCompare(t *testing.T) {
-	// Each list is in natural order.
-	lists := [][]string{
-		{"", "1", "2", "10", "100"},
-		{"P1", "P2", "P10", "P11", "Q1"},
-		{"A", "a", "B"},
-		{"p007", "p7", "p8"},
-		{"R1-2", "R1-10", "R2"},
-	}
-	for _, l := range lists {
-		for i := range l {
-			for j := range l {
-				got := naturalCompare(l[i], l[j])
-				want := 0
-				if i < j {
-					want = -1
-				} else if i > j {
-					want = 1
-				}
-				if got != want {
-					t.Errorf("naturalCompare(%q, %q) = %d, want %d", l[i], l[j], got, want)
-				}
-			}
-		}
 	}
 }
 
