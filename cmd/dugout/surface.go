@@ -13,6 +13,7 @@ import (
 	"slices"
 	"strings"
 	"text/tabwriter"
+	"time"
 
 	"github.com/spf13/cobra"
 
@@ -1069,6 +1070,7 @@ func (g *groundSource) writeLandXML(w io.Writer, m geom.TriMesh) error {
 		Units:       landXMLOfSystem(g.units),
 		EPSG:        g.crs.EPSG,
 		Frame:       g.frame,
+		Created:     time.Now(),
 	})
 }
 
