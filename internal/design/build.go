@@ -432,7 +432,7 @@ func (b *builder) surface(lv *level) (*Surface, error) {
 		CutM3: lv.v.cut, FillM3: lv.v.fill,
 		CutAreaM2: lv.v.cutArea, FillAreaM2: lv.v.fillArea, DisturbedAreaM2: lv.v.cutArea + lv.v.fillArea,
 		CellM: lv.h, RefineChange: lv.change, MaxDepthM: zs.maxDepth,
-		fd: fd, zs: zs, berm: b.berm,
+		fd: fd, zs: zs, berm: b.berm, bowl: &lazyBowl{},
 	}
 	s.E = make([]float64, len(fd.e))
 	for k, e := range fd.e {

@@ -136,4 +136,5 @@ type Surface struct {
 	fd   *field
 	zs   *zoneSet
 	berm berm
+	bowl *lazyBowl // the index of BowlAt
 }

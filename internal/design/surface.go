@@ -9,9 +9,16 @@ import (
 // BowlAt returns the bowl E at p, computed exactly from the zones (not
 // from the lattice): +Inf where only vertical-walled zones reach and none
 // holds p.
+//
+// Cost: a few edges per zone near p, from a grid of cells per zone floor
+// built on the first call; points beyond a zone's grid are measured
+// against all its edges. BowlAt is safe for concurrent use.
 func (s *Surface) BowlAt(p geom.Vec2) float64 {
-	e, _, _ := s.zs.rel(p, -1)
-	return s.WaterLevelM + e
+	if s.bowl == nil {
+		e, _, _ := s.zs.rel(p, -1)
+		return s.WaterLevelM + e
+	}
+	return s.WaterLevelM + s.bowl.get(s.zs).rel(p)
 }
 
 // FinishedAt returns the finished grade D at (x, y), interpolated on the
