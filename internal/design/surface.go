@@ -68,9 +68,26 @@ func (s *Surface) BowlMesh() geom.TriMesh {
 		}
 		return s.E[k]
 	}
-	var m geom.TriMesh
-	nodeV := make([]int32, l.Len()) // vertex index + 1, 0 for none yet
-	clipV := map[[2]int]int32{}     // clip points, by lattice edge
+	// Sized from the nodes in the lined area: about two triangles a node,
+	// and one vertex a node plus the clip points along the rim. Only cells
+	// with a corner among those nodes, within their box, are visited.
+	nIn := 0
+	i0, i1, j0, j1 := l.NX, -1, l.NY, -1
+	for k, e := range s.E {
+		if e <= r {
+			nIn++
+			i, j := k%l.NX, k/l.NX
+			i0, i1, j0, j1 = min(i0, i), max(i1, i), min(j0, j), max(j1, j)
+		}
+	}
+	m := geom.TriMesh{V: make([]geom.Vec3, 0, nIn+nIn/8+64), T: make([]int32, 0, 6*nIn+6*64)}
+	// Vertex index + 1 (0 for none yet) of each node and of the clip
+	// point on each lattice edge, by the edge's lower node: horizontal
+	// (k, k+1), vertical (k, k+NX) and diagonal (k, k+NX+1) edges. Flat
+	// arrays, allocated once, instead of maps.
+	n := l.Len()
+	flat := make([]int32, 4*n)
+	nodeV, clipH, clipV, clipD := flat[:n], flat[n:2*n], flat[2*n:3*n], flat[3*n:]
 	vert := func(k int) int32 {
 		if v := nodeV[k]; v > 0 {
 			return v - 1
@@ -82,9 +99,18 @@ func (s *Surface) BowlMesh() geom.TriMesh {
 		return v
 	}
 	cut := func(a, b int) int32 {
-		key := [2]int{min(a, b), max(a, b)}
-		if v, ok := clipV[key]; ok {
-			return v
+		lo := min(a, b)
+		var slot *int32
+		switch max(a, b) - lo {
+		case 1:
+			slot = &clipH[lo]
+		case l.NX:
+			slot = &clipV[lo]
+		default:
+			slot = &clipD[lo]
+		}
+		if v := *slot; v > 0 {
+			return v - 1
 		}
 		za, zb := z(a), z(b)
 		t := (r - za) / (zb - za)
@@ -95,20 +121,16 @@ func (s *Surface) BowlMesh() geom.TriMesh {
 		p := pa.Lerp(pb, t)
 		v := int32(len(m.V))
 		m.V = append(m.V, geom.Vec3{X: p.X, Y: p.Y, Z: r})
-		clipV[key] = v
+		*slot = v + 1
 		return v
 	}
-	for cj := 0; cj+1 < l.NY; cj++ {
-		for ci := 0; ci+1 < l.NX; ci++ {
+	for cj := max(j0-1, 0); cj <= min(j1, l.NY-2); cj++ {
+		for ci := max(i0-1, 0); ci <= min(i1, l.NX-2); ci++ {
 			c := ci + cj*l.NX
 			nd := [4]int{c, c + 1, c + l.NX, c + l.NX + 1}
 			for t := range 2 {
 				tri := [3]int{nd[triSlots[t][0]], nd[triSlots[t][1]], nd[triSlots[t][2]]}
-				finite := false
-				for _, k := range tri {
-					finite = finite || s.E[k] <= r
-				}
-				if !finite {
+				if !(s.E[tri[0]] <= r || s.E[tri[1]] <= r || s.E[tri[2]] <= r) {
 					continue
 				}
 				// Clip the triangle to z ≤ r (Sutherland–Hodgman on one

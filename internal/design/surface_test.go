@@ -152,3 +152,140 @@ func TestSurface_Queries(t *testing.T) {
 		t.Errorf("water = %.6f, want %.6f", s.WaterVolumeM3, want)
 	}
 }
+
+// bowlMeshMap is BowlMesh as first written, keeping its clip points in a
+// map keyed by lattice edge: the reference for the flat arrays.
+func bowlMeshMap(s *Surface) geom.TriMesh {
+	l := s.Lattice
+	r := s.RimM
+	z := func(k int) float64 {
+		if math.IsInf(s.E[k], 1) {
+			return r
+		}
+		return s.E[k]
+	}
+	var m geom.TriMesh
+	nodeV := make([]int32, l.Len()) // vertex index + 1, 0 for none yet
+	clipV := map[[2]int]int32{}     // clip points, by lattice edge
+	vert := func(k int) int32 {
+		if v := nodeV[k]; v > 0 {
+			return v - 1
+		}
+		p := l.Node(k%l.NX, k/l.NX)
+		v := int32(len(m.V))
+		m.V = append(m.V, geom.Vec3{X: p.X, Y: p.Y, Z: z(k)})
+		nodeV[k] = v + 1
+		return v
+	}
+	cut := func(a, b int) int32 {
+		key := [2]int{min(a, b), max(a, b)}
+		if v, ok := clipV[key]; ok {
+			return v
+		}
+		za, zb := z(a), z(b)
+		t := (r - za) / (zb - za)
+		if t == 0 {
+			return vert(a)
+		}
+		pa, pb := l.Node(a%l.NX, a/l.NX), l.Node(b%l.NX, b/l.NX)
+		p := pa.Lerp(pb, t)
+		v := int32(len(m.V))
+		m.V = append(m.V, geom.Vec3{X: p.X, Y: p.Y, Z: r})
+		clipV[key] = v
+		return v
+	}
+	for cj := 0; cj+1 < l.NY; cj++ {
+		for ci := 0; ci+1 < l.NX; ci++ {
+			c := ci + cj*l.NX
+			nd := [4]int{c, c + 1, c + l.NX, c + l.NX + 1}
+			for t := range 2 {
+				tri := [3]int{nd[triSlots[t][0]], nd[triSlots[t][1]], nd[triSlots[t][2]]}
+				finite := false
+				for _, k := range tri {
+					finite = finite || s.E[k] <= r
+				}
+				if !finite {
+					continue
+				}
+				// Clip the triangle to z ≤ r (Sutherland–Hodgman on one
+				// level), keeping lattice-edge keys for shared vertices.
+				var poly [4]int32
+				n := 0
+				for e := range 3 {
+					a, b := tri[e], tri[(e+1)%3]
+					ina, inb := z(a) <= r, z(b) <= r
+					if ina {
+						poly[n] = vert(a)
+						n++
+					}
+					if ina != inb {
+						poly[n] = cut(a, b)
+						n++
+					}
+				}
+				for q := 1; q+1 < n; q++ {
+					a, b, c := poly[0], poly[q], poly[q+1]
+					if geom.PlanArea(m.V[a], m.V[b], m.V[c]) > 0 {
+						m.T = append(m.T, a, b, c)
+					}
+				}
+			}
+		}
+	}
+	return m
+}
+
+// TestSurface_BowlMeshFlat checks BowlMesh against the map-keyed
+// reference: the same vertices and triangles in the same order, on
+// sloped, sharp and vertical-walled designs.
+func TestSurface_BowlMeshFlat(t *testing.T) {
+	g, _, zones := slopedYard()
+	zones = append(zones, Zone{Name: "vertical L", Ring: ring(4, -3, 7, -3, 7, -1, 5, -1, 5, 1, 4, 1), DepthM: 0.5})
+	for _, h := range []float64{0.125, 0.05} {
+		s, err := Build(g, Params{Zones: zones, WaterLevelM: 100, FreeboardM: 0.15, BermCrestM: 0.5, BermSlope: 2, CellM: h})
+		if err != nil {
+			t.Fatal(err)
+		}
+		got, want := s.BowlMesh(), bowlMeshMap(s)
+		if len(got.V) != len(want.V) || len(got.T) != len(want.T) {
+			t.Fatalf("h %g: %d vertices %d indices, reference %d %d", h, len(got.V), len(got.T), len(want.V), len(want.T))
+		}
+		for i := range got.V {
+			if got.V[i] != want.V[i] {
+				t.Fatalf("h %g: vertex %d = %v, reference %v", h, i, got.V[i], want.V[i])
+			}
+		}
+		for i := range got.T {
+			if got.T[i] != want.T[i] {
+				t.Fatalf("h %g: index %d = %d, reference %d", h, i, got.T[i], want.T[i])
+			}
+		}
+	}
+}
+
+// BenchmarkBowlMesh is the demo pond's bowl mesh for the liner takeoff.
+func BenchmarkBowlMesh(b *testing.B) {
+	g, p := demoCase(b)
+	s, err := Build(g, p)
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ReportMetric(float64(s.BowlMesh().NumTriangles()), "triangles")
+	b.ReportAllocs()
+	for b.Loop() {
+		s.BowlMesh()
+	}
+}
+
+// BenchmarkBowlMeshMap is the map-keyed baseline.
+func BenchmarkBowlMeshMap(b *testing.B) {
+	g, p := demoCase(b)
+	s, err := Build(g, p)
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	for b.Loop() {
+		bowlMeshMap(s)
+	}
+}
