@@ -27,30 +27,53 @@ type rasterProfile struct {
 
 func (p *rasterProfile) develop(o, u geom.Vec2, t0, t1 float64) float64 {
 	r := p.r
-	cap := r.cap
 	n := max(1, int(math.Ceil((t1-t0)/p.step)))
 	dt := (t1 - t0) / float64(n)
-	// Walk the line in grid units.
+	// Walk the line in grid units. Samples outside [lo, hi] are on the
+	// flat capped ground (depth exactly 0), where nothing starts and
+	// nothing is added to the best length, so the walk covers lo − 1 to
+	// hi + 1 only.
 	s := o.Add(u.Scale(t0))
 	fx0, fy0 := (s.X-r.x0)/r.h, (s.Y-r.y0)/r.h
 	dfx, dfy := u.X*dt/r.h, u.Y*dt/r.h
+	lo, hi := r.activeSteps(fx0, fy0, dfx, dfy, n)
+	if lo > hi {
+		return 0
+	}
+	i0, i1 := max(lo-1, 0), min(hi+1, n)
 	dt2 := dt * dt
-	prevZ := r.atGrid(fx0, fy0)
-	started := prevZ < cap
+	prev := r.depthGrid(fx0+float64(i0)*dfx, fy0+float64(i0)*dfy)
+	started := prev < 0
 	total, best := 0.0, 0.0
-	for i := 1; i <= n; i++ {
-		z := r.atGrid(fx0+float64(i)*dfx, fy0+float64(i)*dfy)
-		if !started && z < cap {
+	// The loop body is depthGrid written out, the hottest code of the
+	// sheet search.
+	nx, ny := r.nx, r.ny
+	if nx < 2 || ny < 2 {
+		return 0
+	}
+	xmax, ymax := float64(nx-1), float64(ny-1)
+	dd := r.d
+	for i := i0 + 1; i <= i1; i++ {
+		fx, fy := fx0+float64(i)*dfx, fy0+float64(i)*dfy
+		d := 0.0
+		if fx >= 0 && fy >= 0 && fx <= xmax && fy <= ymax {
+			ci, cj := min(int(fx), nx-2), min(int(fy), ny-2)
+			u, v := fx-float64(ci), fy-float64(cj)
+			k := cj*nx + ci
+			q := dd[k : k+nx+2 : k+nx+2]
+			d = (1-v)*((1-u)*q[0]+u*q[1]) + v*((1-u)*q[nx]+u*q[nx+1])
+		}
+		if !started && d < 0 {
 			started = true
 		}
 		if started {
-			dz := z - prevZ
+			dz := d - prev
 			total += math.Sqrt(dt2 + dz*dz)
-			if z < cap || prevZ < cap {
+			if d < 0 || prev < 0 {
 				best = total
 			}
 		}
-		prevZ = z
+		prev = d
 	}
 	return best
 }

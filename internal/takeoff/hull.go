@@ -3,45 +3,17 @@ package takeoff
 import (
 	"cmp"
 	"math"
-	"math/big"
 	"slices"
 
 	"github.com/dugout-estimating/dugout/internal/geom"
+	"github.com/dugout-estimating/dugout/internal/robust"
 )
 
 // orient returns +1 when c lies to the left of the directed line ab
 // (counter-clockwise turn), −1 to the right and 0 when the three points are
-// collinear. The float64 determinant decides when it is larger than the
-// error bound of Shewchuk's orient2d filter, ccwerrboundA = (3 + 16ε)ε with
-// ε = 2⁻⁵³ ("Adaptive precision floating-point arithmetic and fast robust
-// geometric predicates", Discrete Comput. Geom. 18, 1997, §4.3); otherwise
-// the sign is computed exactly with rationals. Package robust holds the
-// project's full predicates; this local copy keeps the hull here
-// self-contained.
-func orient(a, b, c geom.Vec2) int {
-	const eps = 1.0 / (1 << 53)
-	const errBound = (3 + 16*eps) * eps
-	detLeft := float64((a.X - c.X) * (b.Y - c.Y))
-	detRight := float64((a.Y - c.Y) * (b.X - c.X))
-	det := detLeft - detRight
-	bound := errBound * (math.Abs(detLeft) + math.Abs(detRight))
-	switch {
-	case det > bound:
-		return 1
-	case -det > bound:
-		return -1
-	case detLeft == 0 && detRight == 0:
-		return 0
-	}
-	r := func(f float64) *big.Rat { return new(big.Rat).SetFloat64(f) }
-	acx := new(big.Rat).Sub(r(a.X), r(c.X))
-	bcy := new(big.Rat).Sub(r(b.Y), r(c.Y))
-	acy := new(big.Rat).Sub(r(a.Y), r(c.Y))
-	bcx := new(big.Rat).Sub(r(b.X), r(c.X))
-	l := new(big.Rat).Mul(acx, bcy)
-	rr := new(big.Rat).Mul(acy, bcx)
-	return l.Cmp(rr)
-}
+// collinear, exactly: the sign of [robust.Orient2D], the project's
+// adaptive predicate (Shewchuk 1997).
+func orient(a, b, c geom.Vec2) int { return int(robust.Orient2D(a, b, c)) }
 
 // convexHull returns the convex hull of pts, counter-clockwise, without
 // collinear points, by Andrew's monotone chain (A. M. Andrew, "Another

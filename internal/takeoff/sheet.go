@@ -6,6 +6,7 @@ import (
 	"runtime"
 	"slices"
 	"sync"
+	"sync/atomic"
 
 	"github.com/dugout-estimating/dugout/internal/geom"
 )
@@ -77,10 +78,21 @@ type sheetFit struct {
 	along, across, angleDeg float64
 }
 
+// area measures the sheet at deg on p, the two directions on two
+// goroutines when p is a raster profile (which keeps no scratch state) and
+// there are two processors.
 func (s *sheetSearch) area(p profiler, lines int, refine bool, deg float64) (float64, float64, float64) {
 	th := deg * math.Pi / 180
-	a := longestSection(p, s.hull, th, lines, refine, s.margin)
-	c := longestSection(p, s.hull, th+math.Pi/2, lines, refine, s.margin)
+	var a, c float64
+	if _, ok := p.(*rasterProfile); ok && runtime.GOMAXPROCS(0) >= 2 {
+		var wg sync.WaitGroup
+		wg.Go(func() { a = longestSection(p, s.hull, th, lines, refine, s.margin) })
+		c = longestSection(p, s.hull, th+math.Pi/2, lines, refine, s.margin)
+		wg.Wait()
+	} else {
+		a = longestSection(p, s.hull, th, lines, refine, s.margin)
+		c = longestSection(p, s.hull, th+math.Pi/2, lines, refine, s.margin)
+	}
 	return (a + 2*s.overlap) * (c + 2*s.overlap), a, c
 }
 
@@ -108,12 +120,20 @@ func (s *sheetSearch) exactArea(deg float64) (float64, float64, float64) {
 }
 
 func (s *sheetSearch) run(extra []float64) sheetFit {
-	// 1. Coarse scan.
+	// 1. Coarse scan, the angles shared among the processors (each result
+	// lands in its own slot, so the order of work does not matter).
 	nc := int(math.Round(180 / coarseStepDeg))
 	f := make([]float64, nc)
-	for j := range nc {
-		f[j] = longestSection(s.coarse, s.hull, float64(j)*coarseStepDeg*math.Pi/180, s.coarseLines, false, s.margin)
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range min(runtime.GOMAXPROCS(0), nc) {
+		wg.Go(func() {
+			for j := int(next.Add(1) - 1); j < nc; j = int(next.Add(1) - 1) {
+				f[j] = longestSection(s.coarse, s.hull, float64(j)*coarseStepDeg*math.Pi/180, s.coarseLines, false, s.margin)
+			}
+		})
 	}
+	wg.Wait()
 	half := nc / 2
 	area := make([]float64, half)
 	for j := range half {
