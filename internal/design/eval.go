@@ -142,6 +142,7 @@ func (fd *field) integrate(w float64, g, d []float64, b berm) volumes {
 				}
 				touched = true
 				nd := [4]int{k0, k1, k2, k3}
+				own := [4]int32{fd.volOwner(k0), fd.volOwner(k1), fd.volOwner(k2), fd.volOwner(k3)}
 				var x *split
 				if isSplit {
 					x = &sp[0]
@@ -166,10 +167,18 @@ func (fd *field) integrate(w float64, g, d []float64, b berm) volumes {
 					rf += neg
 					rca += pa
 					rfa += na
-					for _, m := range triSlots[t] {
-						o := fd.volOwner(nd[m])
-						rzc[o] += pos / 3
-						rzf[o] += neg / 3
+					// A third to each corner's zone, in slot order
+					// (adding zero changes nothing, so zeros are skipped).
+					o0, o1, o2 := own[triSlots[t][0]], own[triSlots[t][1]], own[triSlots[t][2]]
+					if p3 := pos / 3; p3 != 0 {
+						rzc[o0] += p3
+						rzc[o1] += p3
+						rzc[o2] += p3
+					}
+					if n3 := neg / 3; n3 != 0 {
+						rzf[o0] += n3
+						rzf[o1] += n3
+						rzf[o2] += n3
 					}
 				}
 			}
