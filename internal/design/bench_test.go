@@ -320,3 +320,42 @@ func TestField_MatchesBruteForce(t *testing.T) {
 		}
 	}
 }
+
+// TestField_CoarseNodes checks that a field taking the nodes it shares
+// with a field of twice the cell from that field equals the field
+// computed afresh, bit for bit, for lattices over different boxes.
+func TestField_CoarseNodes(t *testing.T) {
+	_, _, zones := slopedYard()
+	zones = append(zones,
+		Zone{Name: "vertical L", Ring: ring(4, -3, 7, -3, 7, -1, 5, -1, 5, 1, 4, 1), DepthM: 0.5},
+		Zone{Name: "sharp", Ring: ring(-6, 2, -4, 2.5, -4.5, 4), DepthM: 0.4, WallSlope: 0.7, Corners: Sharp})
+	zs, err := newZoneSet(zones, 0.12)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, h := range []float64{0.25, 0.0625, 0.05} {
+		coarse, err := gridLattice(zs.rimBox().Expand(3+4*h), 2*h)
+		if err != nil {
+			t.Fatal(err)
+		}
+		cf := newField(zs, coarse)
+		for _, grow := range []float64{1, 3, 5} {
+			l, err := gridLattice(zs.rimBox().Expand(grow), h)
+			if err != nil {
+				t.Fatal(err)
+			}
+			got, want := newFieldFrom(zs, l, cf), newField(zs, l)
+			// 0.05 m is no power of two: its nodes are not exact
+			// multiples, and the coarse field must not be taken.
+			if taken := got.coarse != nil; taken != (h != 0.05) {
+				t.Fatalf("h %g: coarse field taken %v", h, taken)
+			}
+			for k := range want.e {
+				if got.e[k] != want.e[k] || got.rho[k] != want.rho[k] || got.own[k] != want.own[k] {
+					t.Fatalf("h %g, box +%g m, node %d: e %g ρ %g own %d, fresh %g %g %d",
+						h, grow, k, got.e[k], got.rho[k], got.own[k], want.e[k], want.rho[k], want.own[k])
+				}
+			}
+		}
+	}
+}

@@ -145,6 +145,9 @@ type builder struct {
 	boxes    map[float64]workArea
 	ranges   map[geom.Box]groundRange
 	quantum  float64 // work-box quantum, m (0 until first needed)
+	// lastField is the field of the lattice built last, whose nodes a
+	// lattice of half its cell shares.
+	lastField *field
 }
 
 func (b *builder) warnf(format string, args ...any) {
@@ -284,7 +287,8 @@ func (b *builder) build(h float64, box geom.Box) (*level, error) {
 	}
 	lv := &level{h: h, g: make([]float64, lat.Len()), d: make([]float64, lat.Len())}
 	b.g.SampleLattice(lat.X0, lat.Y0, lat.H, lat.NX, lat.NY, lv.g)
-	lv.fd = newField(b.zs, lat)
+	lv.fd = newFieldFrom(b.zs, lat, b.lastField)
+	b.lastField = lv.fd
 	lv.gmin, lv.gmax = math.Inf(1), math.Inf(-1)
 	for _, z := range lv.g {
 		if math.IsNaN(z) {

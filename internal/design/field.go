@@ -97,6 +97,13 @@ type field struct {
 	// tiles where e may come within band of the freeboard are evaluated,
 	// for e and own alone; the other nodes keep e = NaN.
 	band float64
+
+	// coarse, when set, supplies the nodes shared with a lattice of twice
+	// the cell (see newFieldFrom): lattice node (i, j) is the global node
+	// (gi0 + i, gj0 + j) in units of the cell, and coarse node (ic, jc) the
+	// global node (ci0 + ic, cj0 + jc) in units of its cell.
+	coarse             *field
+	gi0, gj0, ci0, cj0 int
 }
 
 // leafSize is the largest tile side, in nodes, whose nodes are evaluated
@@ -106,8 +113,23 @@ const leafSize = 16
 // rootSize is the side, in nodes, of the tiles handed to workers.
 const rootSize = 256
 
-func newField(zs *zoneSet, l grid.Lattice) *field {
+// newField computes the field of zs on l.
+func newField(zs *zoneSet, l grid.Lattice) *field { return newFieldFrom(zs, l, nil) }
+
+// newFieldFrom is [newField] taking the nodes it shares with coarse, a
+// full field of zs on a lattice of twice the cell, from coarse. When the
+// cell is a power of two of metres (as the automatic choice makes it),
+// lattice nodes are whole multiples of it, exact in floating point, so a
+// shared node has the very same coordinates in both lattices and its
+// values, computed exactly from them, are the same: a quarter of the
+// nodes come for free. Other cells take nothing from coarse.
+func newFieldFrom(zs *zoneSet, l grid.Lattice, coarse *field) *field {
 	fd := &field{zs: zs, lat: l}
+	if frac, _ := math.Frexp(l.H); frac == 0.5 && coarse != nil && coarse.rho != nil && coarse.zs == zs && coarse.lat.H == 2*l.H {
+		fd.coarse = coarse
+		fd.gi0, fd.gj0 = int(math.Round(l.X0/l.H)), int(math.Round(l.Y0/l.H))
+		fd.ci0, fd.cj0 = int(math.Round(coarse.lat.X0/coarse.lat.H)), int(math.Round(coarse.lat.Y0/coarse.lat.H))
+	}
 	n := l.Len()
 	fd.e = make([]float64, n)
 	fd.rho = make([]float64, n)
@@ -422,7 +444,26 @@ func (w *tileWorker) leaf(i0, i1, j0, j1 int, zs []zc) {
 				rows[m], ptr[m], par[m] = xs, k, k%2 == 1
 			}
 		}
+		// Shared nodes of this row: every other one, from the coarse field.
+		cl, crow := -1, 0
+		if fd.coarse != nil {
+			if gj := fd.gj0 + j; gj&1 == 0 {
+				if jc := gj/2 - fd.cj0; jc >= 0 && jc < fd.coarse.lat.NY {
+					crow = jc * fd.coarse.lat.NX
+					cl = fd.coarse.lat.NX
+				}
+			}
+		}
 		for i := i0; i < i1; i++ {
+			if cl > 0 {
+				if gi := fd.gi0 + i; gi&1 == 0 {
+					if ic := gi/2 - fd.ci0; ic >= 0 && ic < cl {
+						k, kc := l.Index(i, j), crow+ic
+						fd.e[k], fd.rho[k], fd.own[k] = fd.coarse.e[kc], fd.coarse.rho[kc], fd.coarse.own[kc]
+						continue
+					}
+				}
+			}
 			x := l.X0 + float64(i)*l.H
 			e, own, rho, rown := inf, int32(-1), inf, int32(-1)
 			for m := range zs {
