@@ -207,7 +207,7 @@ func (p *analyticProfile) develop(o, u geom.Vec2, t0, t1 float64) float64 {
 		if tc-ta <= 0 {
 			return true
 		}
-		za, zb, zc := math.Min(p.zs[i-1], p.rim), math.Min(p.zs[i], p.rim), math.Min(p.zs[i+1], p.rim)
+		za, zb, zc := min(p.zs[i-1], p.rim), min(p.zs[i], p.rim), min(p.zs[i+1], p.rim)
 		return math.Abs(zb-(za+(zc-za)*(tb-ta)/(tc-ta))) > flatTolM
 	}
 	p.pts = p.pts[:0]
@@ -246,7 +246,7 @@ func (p *analyticProfile) develop(o, u geom.Vec2, t0, t1 float64) float64 {
 	var sum geom.Sum
 	for i := first + 1; i <= last; i++ {
 		a, b := p.pts[i-1], p.pts[i]
-		sum.Add(math.Hypot(b.t-a.t, math.Min(b.z, p.rim)-math.Min(a.z, p.rim)))
+		sum.Add(math.Hypot(b.t-a.t, min(b.z, p.rim)-min(a.z, p.rim)))
 	}
 	return sum.Value()
 }
@@ -271,7 +271,7 @@ func (p *analyticProfile) refine(a, b sample, depth int) {
 	}
 	m := sample{t: (a.t + b.t) / 2}
 	m.z = p.at(m.t)
-	za, zb := math.Min(a.z, p.rim), math.Min(b.z, p.rim)
+	za, zb := min(a.z, p.rim), min(b.z, p.rim)
 	if m.z < p.rim && math.Abs(m.z-(za+zb)/2) <= flatTolM {
 		return
 	}
@@ -376,21 +376,21 @@ func longestSection(p profiler, hull []geom.Vec2, theta float64, n int, refine b
 	if !refine {
 		return best
 	}
-	lo, hi := math.Max(b0, bestB-sp), math.Min(b1, bestB+sp)
+	lo, hi := max(b0, bestB-sp), min(b1, bestB+sp)
 	x1, x2 := hi-invPhi*(hi-lo), lo+invPhi*(hi-lo)
 	f1, f2 := f(x1), f(x2)
-	best = math.Max(best, math.Max(f1, f2))
+	best = max(best, max(f1, f2))
 	for range 14 {
 		if f1 >= f2 {
 			hi, x2, f2 = x2, x1, f1
 			x1 = hi - invPhi*(hi-lo)
 			f1 = f(x1)
-			best = math.Max(best, f1)
+			best = max(best, f1)
 		} else {
 			lo, x1, f1 = x1, x2, f2
 			x2 = lo + invPhi*(hi-lo)
 			f2 = f(x2)
-			best = math.Max(best, f2)
+			best = max(best, f2)
 		}
 	}
 	return best
@@ -472,7 +472,7 @@ func longestGuided(p, guide profiler, hull []geom.Vec2, theta float64, n int, sl
 		x, fx = nx, fn
 		h = math.Abs(dx)
 		fl, fr = f(x-h), f(x+h)
-		best = math.Max(best, math.Max(fl, fr))
+		best = max(best, max(fl, fr))
 	}
 	return best
 }

@@ -73,7 +73,7 @@ func InputFromDesign(s *design.Surface) (Input, error) {
 	// The deepest cut below existing ground, over the surveyed nodes.
 	for k := range s.D {
 		if k < len(s.G) && isFinite(s.G[k]) && isFinite(s.D[k]) {
-			in.MaxCutDepthM = math.Max(in.MaxCutDepthM, s.G[k]-s.D[k])
+			in.MaxCutDepthM = max(in.MaxCutDepthM, s.G[k]-s.D[k])
 		}
 	}
 	return in, nil

@@ -160,8 +160,8 @@ func extent(pts []geom.Vec2, u geom.Vec2) (lo, hi float64) {
 	lo, hi = math.Inf(1), math.Inf(-1)
 	for _, p := range pts {
 		t := p.Dot(u)
-		lo = math.Min(lo, t)
-		hi = math.Max(hi, t)
+		lo = min(lo, t)
+		hi = max(hi, t)
 	}
 	return lo, hi
 }

@@ -161,7 +161,7 @@ func ChooseStock(lengthM, widthM float64, st Stock) (order StockOrder, seamed bo
 	if !(st.SeamOverlapM >= 0) || math.IsInf(st.SeamOverlapM, 0) {
 		return StockOrder{}, false, fmt.Errorf("%w: seam overlap must be >= 0 m, got %g", ErrStock, st.SeamOverlapM)
 	}
-	L, W := math.Max(lengthM, widthM), math.Min(lengthM, widthM)
+	L, W := max(lengthM, widthM), min(lengthM, widthM)
 	ws := slices.Sorted(slices.Values(st.WidthsM))
 	ls := slices.Sorted(slices.Values(st.LengthsM))
 	best := StockOrder{}
@@ -396,7 +396,7 @@ func MeasureLiner(in LinerInput, o LinerOptions) (LinerResult, *UnderlaymentResu
 
 	deepest := math.Inf(1)
 	for _, v := range m.V {
-		deepest = math.Min(deepest, v.Z)
+		deepest = min(deepest, v.Z)
 	}
 	res.RimToDeepestM = R - deepest
 	res.RimRect = MinAreaRect(rim.points)
@@ -408,19 +408,19 @@ func MeasureLiner(in LinerInput, o LinerOptions) (LinerResult, *UnderlaymentResu
 	ext := 0.0
 	for i := range hull {
 		for j := i + 1; j < len(hull); j++ {
-			ext = math.Max(ext, hull[i].Distance(hull[j]))
+			ext = max(ext, hull[i].Distance(hull[j]))
 		}
 	}
 	// The raster ranks angles; half a mesh cell resolves the mesh, and
 	// maxRasterSteps across the pond is enough to rank a large one.
-	hr := math.Max(cell/2, ext/maxRasterSteps)
+	hr := max(cell/2, ext/maxRasterSteps)
 	if !(hr > 0) {
 		hr = ext / 200
 	}
 	ras := newRaster(m, R, hr)
 	// res is the coarser of the mesh's and the raster's resolution: walls
 	// steeper than two of it are smeared.
-	resol := math.Max(cell, 2*ras.h)
+	resol := max(cell, 2*ras.h)
 	s := &sheetSearch{
 		coarse:      &rasterProfile{r: ras, step: 2 * ras.h},
 		fine:        &rasterProfile{r: ras, step: ras.h},
@@ -442,10 +442,10 @@ func MeasureLiner(in LinerInput, o LinerOptions) (LinerResult, *UnderlaymentResu
 			step = ext / 48
 			for _, z := range in.Zones {
 				if band := z.WallSlope * (R - (in.WaterLevelM - z.DepthM)); z.WallSlope > 0 && band > 0 {
-					step = math.Min(step, band/2)
+					step = min(step, band/2)
 				}
 			}
-			step = math.Max(step, ext/1024)
+			step = max(step, ext/1024)
 		}
 		ap := &analyticProfile{bowl: in.Bowl, rim: R, step: step}
 		// The raster overstates lines on sloped walls (its capped cells
@@ -463,7 +463,7 @@ func MeasureLiner(in LinerInput, o LinerOptions) (LinerResult, *UnderlaymentResu
 			ap.rings = append(ap.rings, breakRing{ring: z.Ring, vertical: z.WallSlope == 0})
 			h := R - (in.WaterLevelM - z.DepthM)
 			if z.WallSlope*h < 2*resol {
-				slack += 2 * math.Max(h, 0)
+				slack += 2 * max(h, 0)
 				s.steadyRaster = false
 			}
 		}
@@ -555,7 +555,7 @@ func steepBoxes(zones []Zone, water, rim, cell, reach float64) []geom.Box {
 		}
 		h := rim - (water - z.DepthM)
 		if z.WallSlope*h < 2*cell {
-			bs = append(bs, z.Ring.Bounds().Expand(z.WallSlope*math.Max(h, 0)+reach))
+			bs = append(bs, z.Ring.Bounds().Expand(z.WallSlope*max(h, 0)+reach))
 		}
 	}
 	return bs

@@ -106,10 +106,10 @@ func (r *raster) fill(a, b, c geom.Vec3) {
 	if det == 0 {
 		return
 	}
-	minX := math.Min(a.X, math.Min(b.X, c.X))
-	maxX := math.Max(a.X, math.Max(b.X, c.X))
-	minY := math.Min(a.Y, math.Min(b.Y, c.Y))
-	maxY := math.Max(a.Y, math.Max(b.Y, c.Y))
+	minX := min(a.X, min(b.X, c.X))
+	maxX := max(a.X, max(b.X, c.X))
+	minY := min(a.Y, min(b.Y, c.Y))
+	maxY := max(a.Y, max(b.Y, c.Y))
 	i0 := max(0, int(math.Ceil((minX-r.x0)/r.h)))
 	i1 := min(r.nx-1, int(math.Floor((maxX-r.x0)/r.h)))
 	j0 := max(0, int(math.Ceil((minY-r.y0)/r.h)))
@@ -127,7 +127,7 @@ func (r *raster) fill(a, b, c geom.Vec3) {
 				continue
 			}
 			z := l0*a.Z + l1*b.Z + l2*c.Z
-			r.d[j*r.nx+i] = math.Min(z, r.cap) - r.cap
+			r.d[j*r.nx+i] = min(z, r.cap) - r.cap
 		}
 	}
 }

@@ -202,7 +202,7 @@ func (s *sheetSearch) run(extra []float64) sheetFit {
 		}
 		near := false
 		for _, d := range cands {
-			if da := math.Abs(normAngle(d) - normAngle(c.deg)); math.Min(da, 180-da) < sameAngleDeg {
+			if da := math.Abs(normAngle(d) - normAngle(c.deg)); min(da, 180-da) < sameAngleDeg {
 				near = true
 			}
 		}

@@ -308,7 +308,7 @@ func StretchLength(sh ShorelineResult, i int, st Stretch) (float64, error) {
 		e.Reason = "empty stretch"
 		return 0, e
 	}
-	from, to := math.Min(st.FromM, l.LengthM), math.Min(st.ToM, l.LengthM)
+	from, to := min(st.FromM, l.LengthM), min(st.ToM, l.LengthM)
 	if from < to {
 		return to - from, nil
 	}

@@ -374,7 +374,7 @@ func CrewTime(handTons, machineTons, rate float64, crew int, machineRate, hoursP
 	case !(hoursPerDay > 0 && hoursPerDay <= 24):
 		return res, optionError("hours per day", hoursPerDay, "in (0, 24] h")
 	case !(handTons >= 0) || !(machineTons >= 0):
-		return res, inputError("stone tonnage", math.Min(handTons, machineTons), ">= 0 short tons")
+		return res, inputError("stone tonnage", min(handTons, machineTons), ">= 0 short tons")
 	case machineTons > 0 && (!(machineRate > 0) || math.IsInf(machineRate, 0)):
 		return res, optionError("machine placement rate", machineRate, "> 0 short tons per hour")
 	}

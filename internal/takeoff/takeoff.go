@@ -118,11 +118,11 @@ func Compute(in Input, o Options) (Result, error) {
 	// search: water and pump, gravel, the stone and crew options, prices.
 	deepest := math.Inf(1)
 	for _, v := range in.BowlMesh.V {
-		deepest = math.Min(deepest, v.Z)
+		deepest = min(deepest, v.Z)
 	}
 	maxDepth := in.MaxDepthM
 	if maxDepth == 0 {
-		maxDepth = math.Max(0, in.WaterLevelM-deepest)
+		maxDepth = max(0, in.WaterLevelM-deepest)
 	}
 	area := in.WaterAreaM2
 	if area == 0 {
@@ -277,7 +277,7 @@ func zoneAreas(in Input) []ZoneArea {
 		}
 	}
 	for i := range za {
-		za[i].WallAreaM2 = math.Max(0, dev[i].Value()-za[i].FloorAreaM2)
+		za[i].WallAreaM2 = max(0, dev[i].Value()-za[i].FloorAreaM2)
 	}
 	return za
 }
