@@ -108,7 +108,7 @@ type field struct {
 
 // leafSize is the largest tile side, in nodes, whose nodes are evaluated
 // directly; bigger tiles are split in four after pruning.
-const leafSize = 16
+const leafSize = 8
 
 // rootSize is the side, in nodes, of the tiles handed to workers.
 const rootSize = 256
