@@ -117,8 +117,10 @@ const balanceTol = 1e-5
 // highest ground of the work area (no cut is left there). A finer lattice
 // starts from the coarser one's root, which is already close: a Newton
 // step with the slope the volumes give (below) and a little more lands
-// just past the root, so the bracket is barely wider than the step, and
-// Brent's method closes it in two or three more evaluations.
+// just past the root, so the bracket is barely wider than the step. The
+// bound on the slope then usually proves the far end within the tolerance
+// of the root (see closeEnd); otherwise Brent's method closes the bracket
+// in two or three more evaluations.
 //
 // The slope: where the finished grade moves with W it moves one for one,
 // so d(cut)/dW = −(cut area) and d(fill)/dW = fill area, except in cells
@@ -183,16 +185,24 @@ func (b *builder) balance(h float64, prev *level) (*level, error) {
 			return nil, err
 		}
 	}
-	var ferr error
-	w := brent(func(w float64) float64 {
-		v, _, err := eval(w)
-		if err != nil && ferr == nil {
-			ferr = err
+	w, done := 0.0, false
+	if vlo, ok := seen[lo]; ok && prev != nil {
+		if vhi, ok := seen[hi]; ok {
+			w, done = closeEnd(lo, hi, flo, fhi, k*vlo.cutArea+vhi.fillArea, balanceTol)
 		}
-		return v
-	}, lo, hi, flo, fhi, balanceTol)
-	if ferr != nil {
-		return nil, ferr
+	}
+	if !done {
+		var ferr error
+		w = brent(func(w float64) float64 {
+			v, _, err := eval(w)
+			if err != nil && ferr == nil {
+				ferr = err
+			}
+			return v
+		}, lo, hi, flo, fhi, balanceTol)
+		if ferr != nil {
+			return nil, ferr
+		}
 	}
 	if v, ok := seen[w]; ok && seenOn == lv {
 		if lv.w != w {
@@ -203,6 +213,37 @@ func (b *builder) balance(h float64, prev *level) (*level, error) {
 		return nil, err
 	}
 	return lv, nil
+}
+
+// closeEnd returns an end of the bracket [lo, hi] of the root of the
+// decreasing f = k·cut − fill (f(lo) = flo ≥ 0 ≥ f(hi) = fhi) that lies
+// within tol of the root, if the slope bound proves one does; slope is
+// k × (cut area at lo) + (fill area at hi).
+//
+// The bound: raising W raises the finished grade at every node, so the
+// cut region only shrinks and the fill region only grows between lo and
+// hi, and each integral changes at most by its region's area per metre
+// of W (see balance). |f′| ≤ S = k·cut area(lo) + fill area(hi) on the
+// bracket, so the root r satisfies lo + flo/S ≤ r ≤ hi + fhi/S (S is
+// taken a millionth larger for the round-off of the area sums). An end
+// closer than tol to the far side of that interval is within tol of r.
+func closeEnd(lo, hi, flo, fhi, slope, tol float64) (float64, bool) {
+	s := slope * (1 + 1e-6)
+	if !(s > 0) {
+		return 0, false
+	}
+	rLo, rHi := lo+flo/s, hi+fhi/s
+	switch {
+	case flo == 0:
+		return lo, true
+	case fhi == 0:
+		return hi, true
+	case hi-rLo <= tol:
+		return hi, true
+	case rHi-lo <= tol:
+		return lo, true
+	}
+	return 0, false
 }
 
 // bracketNear returns levels lo < hi with f(lo) ≥ 0 ≥ f(hi) near w0, the

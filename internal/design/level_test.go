@@ -3,6 +3,7 @@ package design
 import (
 	"errors"
 	"math"
+	"math/rand/v2"
 	"strings"
 	"testing"
 
@@ -187,5 +188,46 @@ func TestRimField_MatchesField(t *testing.T) {
 			t.Errorf("h %g: %d crossings, %d of %d nodes computed: the rim field should be a band", h, crossings, computed, l.Len())
 		}
 		t.Logf("h %g: %d crossings, %d of %d nodes computed", h, crossings, computed, l.Len())
+	}
+}
+
+// TestCloseEnd checks the bracket shortcut of the balance search on
+// functions whose slope obeys the bound it is given: a returned end is
+// within the tolerance of the root (found here analytically), and a
+// bracket the bound cannot settle is left to the search.
+func TestCloseEnd(t *testing.T) {
+	const tol = 1e-5
+	seed := uint64(20260304)
+	rng := rand.New(rand.NewPCG(seed, 5))
+	returned := 0
+	for k := range 20000 {
+		// f(W) = S·(r − W)·(1 − c·(W − r)), decreasing on the bracket with
+		// |f′| ≤ S·(1 + 2c·|W − r|); the bound passed is that maximum.
+		r := 29 + rng.Float64()
+		s := 5 + 50*rng.Float64()
+		c := 10 * rng.Float64()
+		lo := r - 3e-5*rng.Float64()
+		hi := r + 3e-5*rng.Float64()
+		f := func(w float64) float64 { return s * (r - w) * (1 - c*(w-r)) }
+		bound := s * (1 + 2*c*max(r-lo, hi-r))
+		w, ok := closeEnd(lo, hi, f(lo), f(hi), bound, tol)
+		if !ok {
+			continue
+		}
+		returned++
+		if w != lo && w != hi {
+			t.Fatalf("case %d (seed %d): closeEnd = %.17g, not an end of [%.17g, %.17g]", k, seed, w, lo, hi)
+		}
+		if d := math.Abs(w - r); d > tol {
+			t.Fatalf("case %d (seed %d): closeEnd = %.12f is %.3g m from the root %.12f, more than %g", k, seed, w, d, r, tol)
+		}
+	}
+	if returned < 1000 {
+		t.Errorf("only %d of 20000 brackets settled", returned)
+	}
+	// A bracket far wider than the tolerance with a steep slope at its
+	// ends says nothing about where the root is.
+	if _, ok := closeEnd(29, 29.01, 0.5, -0.5, 100, tol); ok {
+		t.Errorf("closeEnd settled a 1 cm bracket")
 	}
 }
