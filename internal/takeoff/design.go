@@ -62,20 +62,26 @@ func InputFromDesign(s *design.Surface) (Input, error) {
 			j := min(max(int(math.Floor((cy-l.Y0)/l.H)), 0), l.NY-2)
 			k := l.Index(i, j)
 			low := k
-			for _, q := range [3]int{k + 1, k + l.NX, k + l.NX + 1} {
-				if s.E[q] < s.E[low] {
-					low = q
-				}
+			if q := k + 1; s.E[q] < s.E[low] {
+				low = q
+			}
+			if q := k + l.NX; s.E[q] < s.E[low] {
+				low = q
+			}
+			if q := k + l.NX + 1; s.E[q] < s.E[low] {
+				low = q
 			}
 			in.TriangleZone[t] = s.Owner(low)
 		}
 	}
 	// The deepest cut below existing ground, over the surveyed nodes.
-	for k := range s.D {
-		if k < len(s.G) && isFinite(s.G[k]) && isFinite(s.D[k]) {
-			in.MaxCutDepthM = max(in.MaxCutDepthM, s.G[k]-s.D[k])
+	deepest := 0.0
+	for k, d := range s.D[:min(len(s.D), len(s.G))] {
+		if g := s.G[k]; isFinite(g) && isFinite(d) {
+			deepest = max(deepest, g-d)
 		}
 	}
+	in.MaxCutDepthM = deepest
 	return in, nil
 }
 

@@ -91,6 +91,9 @@ type outlineSeg struct {
 	out  geom.Vec2
 }
 
+// next3 is the next corner of a triangle, (i + 1) mod 3.
+var next3 = [3]int{1, 2, 0}
+
 // levelOutline returns the boundary, in plan, of the part of m strictly
 // below level: the level crossings inside triangles and the pieces of the
 // mesh's own boundary edges that lie below the level (a mesh that stops
@@ -101,6 +104,10 @@ func levelOutline(m geom.TriMesh, level float64) []outlineSeg {
 	for t := range m.NumTriangles() {
 		v := [3]geom.Vec3{}
 		v[0], v[1], v[2] = m.Triangle(t)
+		// Most triangles lie wholly below or above the level.
+		if b0, b1, b2 := v[0].Z < level, v[1].Z < level, v[2].Z < level; b0 == b1 && b1 == b2 {
+			continue
+		}
 		var pts [2]geom.Vec2
 		k := 0
 		for i := range 3 {
@@ -135,16 +142,18 @@ func levelOutline(m geom.TriMesh, level float64) []outlineSeg {
 	}
 	fill := slices.Clone(start[:nv])
 	to := make([]int32, len(m.T))
-	for t := range m.NumTriangles() {
-		for i := range 3 {
-			a, b := m.T[3*t+i], m.T[3*t+(i+1)%3]
+	for t := 0; t+2 < len(m.T); t += 3 {
+		tri := m.T[t : t+3 : t+3]
+		for i, a := range tri {
+			b := tri[next3[i]]
 			to[fill[a]] = b
 			fill[a]++
 		}
 	}
-	for t := range m.NumTriangles() {
-		for i := range 3 {
-			a, b := m.T[3*t+i], m.T[3*t+(i+1)%3]
+	for t := 0; t+2 < len(m.T); t += 3 {
+		tri := m.T[t : t+3 : t+3]
+		for i, a := range tri {
+			b := tri[next3[i]]
 			if !(m.V[a].Z < level) && !(m.V[b].Z < level) {
 				continue
 			}
