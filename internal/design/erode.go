@@ -128,6 +128,10 @@ func (f *bandField) stored(i, j int) bool {
 func erosionField(q *polygon, l grid.Lattice, delta float64) *bandField {
 	tnx, tny := (l.NX+bandTile-1)/bandTile, (l.NY+bandTile-1)/bandTile
 	f := &bandField{lat: l, tnx: tnx, tny: tny, sign: make([]int8, tnx*tny), slot: make([]int32, tnx*tny), far: 4 * l.H}
+	// The band runs along the offset curve, no longer than the outline:
+	// about three tiles across it per tile of its length.
+	est := 3*int(q.pts.Perimeter()/(bandTile*l.H)) + 16
+	f.vals = make([]float64, 0, min(est, tnx*tny)*bandTile*bandTile)
 	rows := newRowIndex(l, q)
 	w := &tileWorker{}
 	var walk func(ti0, ti1, tj0, tj1 int, cand []int32)
@@ -221,17 +225,37 @@ func marchLoops(phi *bandField, center func(geom.Vec2) float64) [][]geom.Vec2 {
 	}
 	type link struct{ from, to int }
 	var links []link
+	// A stored tile's values with a one-node apron on the right and top,
+	// for the cells whose lower-left corner lies in the tile.
+	const ts = bandTile + 1
+	var tv [ts * ts]float64
 	for tj := 0; tj < phi.tny; tj++ {
 		for ti := 0; ti < phi.tnx; ti++ {
 			if phi.sign[tj*phi.tnx+ti] != 0 {
 				continue
 			}
-			for cj := tj * bandTile; cj < min((tj+1)*bandTile, l.NY-1); cj++ {
-				for ci := ti * bandTile; ci < min((ti+1)*bandTile, l.NX-1); ci++ {
+			i0, j0 := ti*bandTile, tj*bandTile
+			base := int(phi.slot[tj*phi.tnx+ti]) * bandTile * bandTile
+			for dj := range ts {
+				for di := range ts {
+					i, j := i0+di, j0+dj
+					switch {
+					case i >= l.NX || j >= l.NY:
+						tv[dj*ts+di] = math.NaN() // beyond the lattice: never read
+					case di < bandTile && dj < bandTile:
+						tv[dj*ts+di] = phi.vals[base+dj*bandTile+di]
+					default:
+						tv[dj*ts+di] = phi.at(i, j)
+					}
+				}
+			}
+			for cj := j0; cj < min(j0+bandTile, l.NY-1); cj++ {
+				for ci := i0; ci < min(i0+bandTile, l.NX-1); ci++ {
 					k := l.Index(ci, cj)
 					e := [4]int{2 * k, 2*(k+1) + 1, 2*(k+l.NX) + 0, 2*k + 1}
 					// Counter-clockwise corners 00, 10, 11, 01.
-					v := [4]float64{phi.at(ci, cj), phi.at(ci+1, cj), phi.at(ci+1, cj+1), phi.at(ci, cj+1)}
+					q := (cj-j0)*ts + ci - i0
+					v := [4]float64{tv[q], tv[q+1], tv[q+ts+1], tv[q+ts]}
 					var in [4]bool
 					code := 0
 					for m := range 4 {
@@ -274,25 +298,43 @@ func marchLoops(phi *bandField, center func(geom.Vec2) float64) [][]geom.Vec2 {
 			}
 		}
 	}
-	slices.SortFunc(links, func(a, b link) int { return cmp.Compare(a.from, b.from) })
-	var loops [][]geom.Vec2
+	// Follow the links into loops, each then turned to start at its lowest
+	// edge id and listed in that order.
+	byFrom := make(map[int]int32, len(links))
+	for n, lk := range links {
+		byFrom[lk.from] = int32(n)
+	}
+	type traced struct {
+		first int // lowest edge id
+		pts   []geom.Vec2
+	}
+	var loops []traced
 	seen := make([]bool, len(links))
 	for s := range links {
 		var loop []geom.Vec2
+		first, at := math.MaxInt, 0
 		for n := s; !seen[n]; {
 			seen[n] = true
+			if id := links[n].from; id < first {
+				first, at = id, len(loop)
+			}
 			loop = append(loop, point(links[n].from))
-			m, ok := slices.BinarySearchFunc(links, links[n].to, func(a link, id int) int { return cmp.Compare(a.from, id) })
+			m, ok := byFrom[links[n].to]
 			if !ok {
 				break
 			}
-			n = m
+			n = int(m)
 		}
 		if len(loop) >= 3 {
-			loops = append(loops, loop)
+			loops = append(loops, traced{first, append(loop[at:], loop[:at]...)})
 		}
 	}
-	return loops
+	slices.SortFunc(loops, func(a, b traced) int { return cmp.Compare(a.first, b.first) })
+	out := make([][]geom.Vec2, len(loops))
+	for i, lp := range loops {
+		out[i] = lp.pts
+	}
+	return out
 }
 
 // feature names the part of ∂q nearest a point: edge k (k ≥ 0) or vertex
