@@ -96,13 +96,35 @@ func (fd *field) evaluate(w float64, g, d []float64, b berm) volumes {
 }
 
 // grade fills d with the finished grade for water level w over existing
-// ground g.
+// ground g. The berm's drop below the rim at each node, max(0, ρ − c)/b,
+// does not depend on W: it is computed once per field and berm.
 func (fd *field) grade(w float64, g, d []float64, b berm) {
 	zs := fd.zs
 	l := fd.lat
+	if fd.drop == nil || fd.dropBerm != b {
+		if fd.drop == nil {
+			fd.drop = make([]float64, l.Len())
+		}
+		fd.dropBerm = b
+		forBands(l.NY, func(_, j0, j1 int) {
+			for k := j0 * l.NX; k < j1*l.NX; k++ {
+				fd.drop[k] = max(0, fd.rho[k]-b.crest) / b.slope
+			}
+		})
+	}
+	f := zs.freeboard
 	forBands(l.NY, func(_, j0, j1 int) {
-		for k := j0 * l.NX; k < j1*l.NX; k++ {
-			d[k] = zs.finished(w, fd.e[k], fd.rho[k], g[k], b)
+		k0, k1 := j0*l.NX, j1*l.NX
+		e, drop, gg, dd := fd.e[k0:k1], fd.drop[k0:k1], g[k0:k1], d[k0:k1]
+		drop, gg, dd = drop[:len(e)], gg[:len(e)], dd[:len(e)]
+		for k, ek := range e {
+			// zoneSet.finished with the drop read, not computed.
+			if ek <= f {
+				dd[k] = w + ek
+				continue
+			}
+			bz := w + f - drop[k]
+			dd[k] = max(bz, min(gg[k], w+ek))
 		}
 	})
 }
@@ -126,11 +148,17 @@ func (fd *field) integrate(w float64, g, d []float64, b berm) volumes {
 		for cj := j0; cj < j1; cj++ {
 			var rc, rf, rca, rfa float64
 			touched := false
-			for ci := 0; ci+1 < l.NX; ci++ {
-				c := ci + cj*l.NX
+			// The cell row's two node rows, as slices of one length so that
+			// the index checks go.
+			r0 := cj * l.NX
+			g0, g1 := g[r0:r0+l.NX], g[r0+l.NX:r0+2*l.NX]
+			d0, d1 := d[r0:r0+l.NX], d[r0+l.NX:r0+2*l.NX]
+			g1, d0, d1 = g1[:len(g0)], d0[:len(g0)], d1[:len(g0)]
+			for ci := 0; ci+1 < len(g0); ci++ {
+				c := ci + r0
 				isSplit := len(sp) > 0 && sp[0].cell == c
 				k0, k1, k2, k3 := c, c+1, c+l.NX, c+l.NX+1
-				f = [4]float64{g[k0] - d[k0], g[k1] - d[k1], g[k2] - d[k2], g[k3] - d[k3]}
+				f = [4]float64{g0[ci] - d0[ci], g0[ci+1] - d0[ci+1], g1[ci] - d1[ci], g1[ci+1] - d1[ci+1]}
 				if !isSplit && f[0] == 0 && f[1] == 0 && f[2] == 0 && f[3] == 0 {
 					continue
 				}

@@ -104,6 +104,11 @@ type field struct {
 	// global node (ci0 + ic, cj0 + jc) in units of its cell.
 	coarse             *field
 	gi0, gj0, ci0, cj0 int
+
+	// drop is the berm's drop below the rim at each node for dropBerm
+	// (see grade), nil until first needed.
+	drop     []float64
+	dropBerm berm
 }
 
 // leafSize is the largest tile side, in nodes, whose nodes are evaluated
