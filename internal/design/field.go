@@ -260,19 +260,32 @@ func (w *tileWorker) all(n int) []int32 {
 
 // eucBounds narrows the candidate segments of a Euclidean distance over
 // the box and returns bounds of the distance to the polygon boundary.
+//
+// An edge whose bounding box is already farther from the box than the
+// best upper bound so far can neither lower that bound (its largest
+// corner distance is at least as far) nor be kept nor give the least
+// lower bound (which never exceeds the upper one), so its exact
+// distances are skipped: the same results for much less work far from
+// the polygon.
 func (w *tileWorker) eucBounds(q *polygon, cand []int32, x0, y0, x1, y1 float64) (out []int32, lb2, ub2 float64) {
 	lb2, ub2 = math.Inf(1), math.Inf(1)
 	w.tmp = w.tmp[:0]
 	for _, k := range cand {
 		s := &q.segs[k]
-		lo := s.boxDist2(x0, y0, x1, y1)
-		w.tmp = append(w.tmp, lo)
-		lb2 = min(lb2, lo)
-		ub2 = min(ub2, s.maxCornerDist2(x0, y0, x1, y1))
+		bb := s.bboxDist2(x0, y0, x1, y1)
+		w.tmp = append(w.tmp, bb)
+		if bb <= ub2 {
+			ub2 = min(ub2, s.maxCornerDist2(x0, y0, x1, y1))
+		}
 	}
 	st := len(w.arena)
 	for m, k := range cand {
-		if w.tmp[m] <= ub2 {
+		if w.tmp[m] > ub2 {
+			continue
+		}
+		lo := q.segs[k].boxDist2(x0, y0, x1, y1)
+		lb2 = min(lb2, lo)
+		if lo <= ub2 {
 			w.arena = append(w.arena, k)
 		}
 	}

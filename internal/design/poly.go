@@ -7,15 +7,29 @@ import (
 )
 
 // segment is one polygon edge prepared for distance queries: start a,
-// direction d = b − a and inv = 1/|d|².
-type segment struct{ ax, ay, dx, dy, inv float64 }
+// direction d = b − a, inv = 1/|d|² and its bounding box.
+type segment struct {
+	ax, ay, dx, dy, inv    float64
+	minX, minY, maxX, maxY float64
+}
 
 func newSegment(a, b geom.Vec2) segment {
-	s := segment{ax: a.X, ay: a.Y, dx: b.X - a.X, dy: b.Y - a.Y}
+	s := segment{ax: a.X, ay: a.Y, dx: b.X - a.X, dy: b.Y - a.Y,
+		minX: min(a.X, b.X), minY: min(a.Y, b.Y), maxX: max(a.X, b.X), maxY: max(a.Y, b.Y)}
 	if l2 := s.dx*s.dx + s.dy*s.dy; l2 > 0 {
 		s.inv = 1 / l2
 	}
 	return s
+}
+
+// bboxDist2 returns the squared distance between the segment's bounding
+// box and the box [x0, x1] × [y0, y1]: a lower bound of [segment.boxDist2]
+// and of every distance from the box to the segment, at a fraction of the
+// cost.
+func (s *segment) bboxDist2(x0, y0, x1, y1 float64) float64 {
+	dx := max(x0-s.maxX, 0, s.minX-x1)
+	dy := max(y0-s.maxY, 0, s.minY-y1)
+	return dx*dx + dy*dy
 }
 
 // dist2 returns the squared distance from (x, y) to the closed segment.
