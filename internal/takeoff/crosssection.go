@@ -53,10 +53,24 @@ func (p *rasterProfile) develop(o, u geom.Vec2, t0, t1 float64) float64 {
 	}
 	xmax, ymax := float64(nx-1), float64(ny-1)
 	dd := r.d
+	// Samples in [g0, g1] lie on the grid, the others off it (depth 0):
+	// the test is monotone along the line, so its ends are found by
+	// stepping from an estimate with the test itself.
+	in := func(i int) bool {
+		fx, fy := fx0+float64(i)*dfx, fy0+float64(i)*dfy
+		return fx >= 0 && fy >= 0 && fx <= xmax && fy <= ymax
+	}
+	g0, g1 := i0+1, i1
+	for g0 <= g1 && !in(g0) {
+		g0++
+	}
+	for g1 >= g0 && !in(g1) {
+		g1--
+	}
 	for i := i0 + 1; i <= i1; i++ {
 		fx, fy := fx0+float64(i)*dfx, fy0+float64(i)*dfy
 		d := 0.0
-		if fx >= 0 && fy >= 0 && fx <= xmax && fy <= ymax {
+		if i >= g0 && i <= g1 {
 			ci, cj := min(int(fx), nx-2), min(int(fy), ny-2)
 			u, v := fx-float64(ci), fy-float64(cj)
 			k := cj*nx + ci
