@@ -68,6 +68,7 @@ func Build(g Terrain, p Params) (*Surface, error) {
 		if prev != nil {
 			cur.change = relChange(prev.v, cur.v)
 		}
+		b.trim = cur.earthwork().Expand(2 * cur.h)
 		if fixed {
 			if k == 1 {
 				if cur.change > refineTarget {
@@ -148,6 +149,36 @@ type builder struct {
 	// lastField is the field of the lattice built last, whose nodes a
 	// lattice of half its cell shares.
 	lastField *field
+	// trim bounds the work area of the next, finer lattice: the earthwork
+	// found on the last one, grown by two of its cells (empty at first).
+	trim geom.Box
+}
+
+// earthwork returns the box of the lattice nodes where the finished grade
+// differs from surveyed ground (empty when there are none).
+func (lv *level) earthwork() geom.Box {
+	l := lv.fd.lat
+	i0, i1, j0, j1 := l.NX, -1, l.NY, -1
+	for k, d := range lv.d {
+		if g := lv.g[k]; d != g && !math.IsNaN(g) {
+			i, j := k%l.NX, k/l.NX
+			i0, i1, j0, j1 = min(i0, i), max(i1, i), min(j0, j), max(j1, j)
+		}
+	}
+	if i1 < 0 {
+		return geom.EmptyBox()
+	}
+	return geom.Box{Min: l.Node(i0, j0), Max: l.Node(i1, j1)}
+}
+
+// intersect returns the common part of a and b, or an empty box.
+func intersect(a, b geom.Box) geom.Box {
+	r := geom.Box{Min: geom.Vec2{X: max(a.Min.X, b.Min.X), Y: max(a.Min.Y, b.Min.Y)},
+		Max: geom.Vec2{X: min(a.Max.X, b.Max.X), Y: min(a.Max.Y, b.Max.Y)}}
+	if r.Min.X > r.Max.X || r.Min.Y > r.Max.Y {
+		return geom.EmptyBox()
+	}
+	return r
 }
 
 func (b *builder) warnf(format string, args ...any) {
@@ -329,6 +360,9 @@ func (b *builder) evalAt(lv *level, h, w float64) (*level, error) {
 	box, _, _, err := b.workBox(w)
 	if err != nil {
 		return nil, err
+	}
+	if !b.trim.IsEmpty() {
+		box = intersect(box, b.trim).Union(b.snap(b.zs.rimBox()))
 	}
 	if lv != nil {
 		lb := lv.fd.lat.Bounds()

@@ -70,7 +70,10 @@
 //
 // Everything is sampled on a [grid.Lattice] over the work area: the bowl
 // up to daylight and the berm down to the ground, bounded from the zones,
-// their slopes and depths, the ground's range and the berm. G comes from
+// their slopes and depths, the ground's range and the berm, and on each
+// finer lattice also by the earthwork the coarser one found, grown by two
+// of its cells (the lattice grows again if the earthwork reaches its
+// edge). G comes from
 // Terrain.SampleLattice; E and the distance to the rim set are computed at
 // the nodes exactly from the zone polygons, with a quadtree of tiles that
 // drops every zone and edge that cannot be nearest within a tile. Volumes
