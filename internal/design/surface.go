@@ -128,6 +128,18 @@ func (s *Surface) BowlMesh() geom.TriMesh {
 		for ci := max(i0-1, 0); ci <= min(i1, l.NX-2); ci++ {
 			c := ci + cj*l.NX
 			nd := [4]int{c, c + 1, c + l.NX, c + l.NX + 1}
+			if s.E[nd[0]] <= r && s.E[nd[1]] <= r && s.E[nd[2]] <= r && s.E[nd[3]] <= r {
+				// A cell wholly in the lined area: its two triangles as
+				// they are (what the clip below gives them, vertex for
+				// vertex and in the same order).
+				for t := range 2 {
+					va, vb, vc := vert(nd[triSlots[t][0]]), vert(nd[triSlots[t][1]]), vert(nd[triSlots[t][2]])
+					if geom.PlanArea(m.V[va], m.V[vb], m.V[vc]) > 0 {
+						m.T = append(m.T, va, vb, vc)
+					}
+				}
+				continue
+			}
 			for t := range 2 {
 				tri := [3]int{nd[triSlots[t][0]], nd[triSlots[t][1]], nd[triSlots[t][2]]}
 				if !(s.E[tri[0]] <= r || s.E[tri[1]] <= r || s.E[tri[2]] <= r) {
