@@ -266,8 +266,9 @@ func (b *builder) bracketNear(w0 float64, f func(float64) (float64, float64, err
 	step := balanceTol
 	if s0 < 0 {
 		// The slope is a few per cent steep (see balance), so the Newton
-		// step is lengthened by 5 % and by half the tolerance.
-		step = max(step, 1.05*math.Abs(f0/s0)+balanceTol/2)
+		// step is lengthened by 5 % and by a twentieth of the tolerance,
+		// so that it lands just past the root, close to it.
+		step = max(step, 1.05*math.Abs(f0/s0)+balanceTol/20)
 	}
 	for {
 		w1 := w0 + dir*step
