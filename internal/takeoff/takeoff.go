@@ -3,6 +3,7 @@ package takeoff
 import (
 	"fmt"
 	"math"
+	"sync"
 
 	"github.com/dugout-estimating/dugout/internal/contours"
 	"github.com/dugout-estimating/dugout/internal/geom"
@@ -158,18 +159,27 @@ func Compute(in Input, o Options) (Result, error) {
 		}
 	}
 
+	// The shoreline does not depend on the liner: it is measured on a
+	// second goroutine meanwhile (the bowl is safe for concurrent use), and
+	// its result and error are taken after the liner's, as before.
+	var sh ShorelineResult
+	var shErr error
+	var wg sync.WaitGroup
+	wg.Go(func() {
+		sh, shErr = MeasureShoreline(ShorelineInput{Lines: TraceWaterLine(in.BowlMesh, in.WaterLevelM), WaterLevelM: in.WaterLevelM,
+			Mesh: in.BowlMesh, Bowl: in.Bowl, Zones: in.Zones}, o.Shoreline)
+	})
 	liner, under, warn, err := MeasureLiner(LinerInput{Mesh: in.BowlMesh, RimM: in.RimM, WaterLevelM: in.WaterLevelM,
 		Bowl: in.Bowl, Zones: in.Zones}, o.Liner)
+	wg.Wait()
 	if err != nil {
 		return res, err
 	}
 	res.Liner, res.Underlayment = liner, under
 	res.Warnings = append(res.Warnings, warn...)
 
-	sh, err := MeasureShoreline(ShorelineInput{Lines: TraceWaterLine(in.BowlMesh, in.WaterLevelM), WaterLevelM: in.WaterLevelM,
-		Mesh: in.BowlMesh, Bowl: in.Bowl, Zones: in.Zones}, o.Shoreline)
-	if err != nil {
-		return res, err
+	if shErr != nil {
+		return res, shErr
 	}
 	if sh.Loops == 0 {
 		res.Warnings = append(res.Warnings, fmt.Sprintf("no water line at %.3f m: the bowl holds no water", in.WaterLevelM))
