@@ -43,6 +43,7 @@ type Job struct {
 	SurveyFiles   []string
 	Survey        survey.Options
 	TIN           tin.Options // Breaklines and Boundary are filled in by Run
+	DropSpikes    bool // leave suspected spikes out of the TIN
 	BoundaryFile  string
 	BreaklineFile []string
 
@@ -137,6 +138,7 @@ func FromSite(s *sitefile.Site) (*Job, error) {
 	if j.TIN.MaxEdgeM, err = length(s.Survey.MaxEdge, "survey.max_edge", 0, ""); err != nil {
 		return nil, err
 	}
+	j.DropSpikes = s.Survey.DropSpikes
 	j.BoundaryFile = s.Path(s.Survey.Boundary)
 	for _, f := range s.Survey.Breaklines {
 		j.BreaklineFile = append(j.BreaklineFile, s.Path(f))

@@ -113,13 +113,28 @@ func (r *Result) buildTerrain() error {
 		}
 		opt.Boundary = append(opt.Boundary, p.Ring)
 	}
+	spikes := map[survey.PointRef]bool{}
+	for _, sp := range set.Summary().Spikes {
+		spikes[sp.Point] = true
+	}
 	pts := make([]geom.Vec3, 0, len(set.Points))
 	src := make([]int, 0, len(set.Points)) // TIN input index -> survey point
 	for i, p := range set.Points {
-		if p.HasZ() {
-			pts = append(pts, p.P)
-			src = append(src, i)
+		if !p.HasZ() {
+			continue
 		}
+		ref := survey.PointRef{ID: p.ID, File: p.File, Line: p.Line}
+		if spikes[ref] {
+			if j.DropSpikes {
+				r.Warnings = append(r.Warnings, fmt.Sprintf("surface: suspected spike %s (%s line %d) left out of the surface (survey.drop_spikes)",
+					p.ID, filepath.Base(p.File), p.Line))
+				continue
+			}
+			r.Warnings = append(r.Warnings, fmt.Sprintf("surface: suspected spike %s (%s line %d) is in the surface; check the shot, or set survey.drop_spikes = true to leave it out",
+				p.ID, filepath.Base(p.File), p.Line))
+		}
+		pts = append(pts, p.P)
+		src = append(src, i)
 	}
 	s, err := tin.Build(pts, opt)
 	if err != nil {

@@ -52,6 +52,7 @@ type Survey struct {
 	Boundary       string   `toml:"boundary"`        // a GeoJSON polygon that trims the surface
 	MaxEdge        Length   `toml:"max_edge"`        // trim triangles with longer outer edges
 	Duplicates     string   `toml:"duplicates"`      // mean | first | error
+	DropSpikes     bool     `toml:"drop_spikes"`     // leave suspected spikes out of the surface
 	LASClasses     []int    `toml:"las_classes"`     // LAS classes to keep (default ground)
 	Thin           Length   `toml:"thin"`            // LAS thinning cell
 	ThinMode       string   `toml:"thin_mode"`       // lowest | mean
