@@ -41,7 +41,7 @@ func TestSection_Golden(t *testing.T) {
 var exaggerationRE = regexp.MustCompile(`vertical exaggeration ([0-9.]+)×`)
 
 func TestSection_SampleIsReadable(t *testing.T) {
-	// The brief for our sections: a stated vertical exaggeration of 2× to
+	// What we want of our sections: a stated vertical exaggeration of 2× to
 	// 5× for a garden pond, and the title A–A'.
 	for _, name := range []string{"A", "B"} {
 		root := parseXML(t, renderSection(t, sampleSection(name)))
