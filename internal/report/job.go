@@ -359,15 +359,22 @@ func (v *jobView) liner() jobSection {
 		stockNote = fmt.Sprintf("%d panels (%d across × %d along), %d %s of %s lap", st.Panels, st.PanelsAcross, st.PanelsAlong,
 			st.Seams, plural(st.Seams, "seam", "seams"), v.depthText(st.SeamOverlapM))
 	}
+	stockSheetNote := "the smallest sheet takes the least stock"
+	if l.StockSheetAngleDeg != l.SheetAngleDeg || l.StockSheetAreaM2 != l.SheetAreaM2 {
+		stockSheetNote = fmt.Sprintf("laid at %.0f°, the angle that takes the least stock; each side includes 2 × overlap", l.StockSheetAngleDeg)
+	}
 	s.lines = []jobLine{
 		{label: "Developed area (bowl to the rim)", kind: jkArea, vals: []float64{l.DevelopedAreaM2}, note: "true 3-D area of the bowl below the rim"},
 		{label: "Overlap beyond the rim", kind: jkDepth, vals: []float64{l.OverlapM}, note: "anchor allowance on every side"},
 		{label: "Liner in the ground", kind: jkArea, vals: []float64{l.LinerAreaM2}, note: "developed area + rim perimeter × overlap"},
-		{label: "Sheet needed (length × width)", kind: jkLength, vals: []float64{l.SheetLengthM, l.SheetWidthM}, parts: []string{"length", "width"},
-			note: "each side includes 2 × overlap"},
-		{label: "Sheet laid at", kind: jkNumber, vals: []float64{l.SheetAngleDeg}, dec: 0, unit: "°", note: "length counter-clockwise from east"},
+		{label: "Smallest sheet (length × width)", kind: jkLength, vals: []float64{l.SheetLengthM, l.SheetWidthM}, parts: []string{"length", "width"},
+			note: "least area over all angles; each side includes 2 × overlap"},
+		{label: "Smallest sheet laid at", kind: jkNumber, vals: []float64{l.SheetAngleDeg}, dec: 0, unit: "°", note: "length counter-clockwise from east"},
+		{label: "Sheet as laid (length × width)", kind: jkLength, vals: []float64{l.StockSheetLengthM, l.StockSheetWidthM}, parts: []string{"length", "width"},
+			note: stockSheetNote},
 		{label: "Stock to order (length × width)", kind: jkLength, vals: []float64{st.PanelLengthM, st.PanelWidthM}, parts: []string{"length", "width"},
 			note: material + ", " + stockNote},
+		{label: "Lay the stock at", kind: jkNumber, vals: []float64{l.StockLengthAngleDeg}, dec: 0, unit: "°", note: "stock length counter-clockwise from east"},
 		{label: "Seams", kind: jkCount, vals: []float64{float64(st.Seams)}, unit: plural(st.Seams, "seam", "seams")},
 		{label: "Stock bought", kind: jkArea, vals: []float64{st.AreaM2}},
 		{label: "Waste", kind: jkArea, vals: []float64{l.WasteM2}, note: fmt.Sprintf("stock ÷ liner in the ground = %.2f", l.WasteRatio)},
@@ -376,7 +383,7 @@ func (v *jobView) liner() jobSection {
 	if u := v.r.Takeoff.Underlayment; u != nil {
 		s.lines = append(s.lines,
 			jobLine{label: "Underlayment sheet (length × width)", kind: jkLength, vals: []float64{u.SheetLengthM, u.SheetWidthM}, parts: []string{"length", "width"},
-				note: fmt.Sprintf("%s, %.0f g/m²", u.Material.Name, u.Material.GramsPerM2)},
+				note: fmt.Sprintf("%s, %.0f g/m², laid with the liner", u.Material.Name, u.Material.GramsPerM2)},
 			jobLine{label: "Underlayment area", kind: jkArea, vals: []float64{u.AreaM2}},
 			jobLine{label: "Underlayment weight", kind: jkWeight, vals: []float64{u.WeightKg}},
 		)

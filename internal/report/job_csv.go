@@ -50,8 +50,9 @@ func WriteQuantitiesCSV(w io.Writer, r *estimate.Result) error {
 			for k, val := range l.vals {
 				item := l.label
 				if len(l.vals) > 1 && k < len(l.parts) {
-					// "Sheet needed (length × width)" gives "Sheet
-					// needed, length" and "Sheet needed, width".
+					// "Smallest sheet (length × width)" gives
+					// "Smallest sheet, length" and "Smallest sheet,
+					// width".
 					if i := strings.LastIndex(item, " ("); i > 0 && strings.HasSuffix(item, ")") {
 						item = item[:i]
 					}

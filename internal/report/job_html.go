@@ -63,6 +63,7 @@ func (v *jobView) tiles() []Row {
 	if s := t.Liner.Stock; s.Panels > 1 {
 		stock = fmt.Sprintf("%d panels, %d %s", s.Panels, s.Seams, plural(s.Seams, "seam", "seams"))
 	}
+	stock += fmt.Sprintf(", length laid at %.0f° from east", t.Liner.StockLengthAngleDeg)
 	tiles := []Row{
 		tile("Dig (cut, bank)", "Cut (bank)", fmt.Sprintf("fill %s compacted", v.oneText(jkVolume, r.Earthwork.FillCompactedM3))),
 		tile("Haul off (loose)", "Haul-off (loose)", haulNote),

@@ -358,7 +358,9 @@ func TestWriteSummary_AgreesWithJSON(t *testing.T) {
 		{"Shoreline (water's edge)", fmt.Sprintf("%.1f ft", tk.Shoreline.LengthM/0.3048)},
 		{"Edge stone", fmt.Sprintf("%.2f short tons", tk.Stone.EdgeTons)},
 		{"Total head (duty point)", fmt.Sprintf("%.1f ft", tk.Pump.HeadM/0.3048)},
-		{"Sheet needed (length × width)", fmt.Sprintf("%.1f × %.1f ft", tk.Liner.SheetLengthM/0.3048, tk.Liner.SheetWidthM/0.3048)},
+		{"Smallest sheet (length × width)", fmt.Sprintf("%.1f × %.1f ft", tk.Liner.SheetLengthM/0.3048, tk.Liner.SheetWidthM/0.3048)},
+		{"Sheet as laid (length × width)", fmt.Sprintf("%.1f × %.1f ft", tk.Liner.StockSheetLengthM/0.3048, tk.Liner.StockSheetWidthM/0.3048)},
+		{"Lay the stock at", fmt.Sprintf("%.0f°", tk.Liner.StockLengthAngleDeg)},
 	} {
 		if l := summaryLine(text.String(), c.label); !strings.Contains(l, c.want) {
 			t.Errorf("summary line %q lacks %q", l, c.want)

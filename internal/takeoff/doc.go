@@ -27,6 +27,9 @@
 //     refinement run on a raster of the mesh; the final candidates are measured
 //     on the analytic bowl when one is given, with the zone edges as
 //     breakpoints, so that vertical walls come out exact.
+//   - The stock is ordered for the angle whose sheet rounds up to the least
+//     stock area (ties to the smaller sheet), which need not be the least
+//     sheet's angle; both sheets and their angles are reported.
 //   - Contour points of the water line and the rim are moved onto the analytic
 //     bowl by bisection, which removes the one-cell smear of a vertical wall.
 //

@@ -161,9 +161,21 @@ func ChooseStock(lengthM, widthM float64, st Stock) (order StockOrder, seamed bo
 	if !(st.SeamOverlapM >= 0) || math.IsInf(st.SeamOverlapM, 0) {
 		return StockOrder{}, false, fmt.Errorf("%w: seam overlap must be >= 0 m, got %g", ErrStock, st.SeamOverlapM)
 	}
-	L, W := max(lengthM, widthM), min(lengthM, widthM)
 	ws := slices.Sorted(slices.Values(st.WidthsM))
 	ls := slices.Sorted(slices.Values(st.LengthsM))
+	order, seamed, ok := pickStock(lengthM, widthM, ws, ls, st.SeamOverlapM)
+	if !ok {
+		return StockOrder{}, true, fmt.Errorf("%w: a %.3f × %.3f m sheet needs seams, but no stock size is larger than the %.3f m seam overlap",
+			ErrStock, max(lengthM, widthM), min(lengthM, widthM), st.SeamOverlapM)
+	}
+	return order, seamed, nil
+}
+
+// pickStock is ChooseStock on a checked stock list, the widths ws and
+// lengths ls sorted; ok is false when no layout covers the sheet. It does
+// not allocate.
+func pickStock(lengthM, widthM float64, ws, ls []float64, seam float64) (order StockOrder, seamed, ok bool) {
+	L, W := max(lengthM, widthM), min(lengthM, widthM)
 	best := StockOrder{}
 	found := false
 	better := func(o StockOrder) bool {
@@ -182,7 +194,7 @@ func ChooseStock(lengthM, widthM float64, st Stock) (order StockOrder, seamed bo
 		for _, l := range ls {
 			if (w+stockFitTolM >= W && l+stockFitTolM >= L) || (w+stockFitTolM >= L && l+stockFitTolM >= W) {
 				o := StockOrder{PanelWidthM: w, PanelLengthM: l, Panels: 1, PanelsAcross: 1, PanelsAlong: 1,
-					SeamOverlapM: st.SeamOverlapM, AreaM2: w * l}
+					SeamOverlapM: seam, AreaM2: w * l}
 				if better(o) {
 					best, found = o, true
 				}
@@ -190,9 +202,9 @@ func ChooseStock(lengthM, widthM float64, st Stock) (order StockOrder, seamed bo
 		}
 	}
 	if found {
-		return best, false, nil
+		return best, false, true
 	}
-	s := st.SeamOverlapM
+	s := seam
 	need := func(x, size float64) int {
 		if size+stockFitTolM >= x {
 			return 1
@@ -217,11 +229,25 @@ func ChooseStock(lengthM, widthM float64, st Stock) (order StockOrder, seamed bo
 			}
 		}
 	}
-	if !found {
-		return StockOrder{}, true, fmt.Errorf("%w: a %.3f × %.3f m sheet needs seams, but no stock size is larger than the %.3f m seam overlap",
-			ErrStock, L, W, s)
-	}
-	return best, true, nil
+	return best, true, found
+}
+
+// lengthAlong reports whether the order's panels, laid with their length
+// along the sheet's length L (and their width across its width W), cover
+// the sheet; otherwise they are laid turned.
+func (o StockOrder) lengthAlong(L, W float64) bool {
+	cover := func(n int, size float64) float64 { return float64(n)*size - float64(n-1)*o.SeamOverlapM }
+	return cover(o.PanelsAlong, o.PanelLengthM)+stockFitTolM >= L && cover(o.PanelsAcross, o.PanelWidthM)+stockFitTolM >= W
+}
+
+// gap returns how far a sheet of sides L and W overruns the cover of the
+// order's panels (m), the larger of the two sides' overruns in the better
+// of the two ways of laying them; it is <= 0 when the panels cover the
+// sheet.
+func (o StockOrder) gap(L, W float64) float64 {
+	cover := func(n int, size float64) float64 { return float64(n)*size - float64(n-1)*o.SeamOverlapM }
+	a, b := cover(o.PanelsAlong, o.PanelLengthM), cover(o.PanelsAcross, o.PanelWidthM)
+	return min(max(L-a, W-b), max(L-b, W-a))
 }
 
 // LinerOptions configures the liner and underlayment order. The zero value
@@ -283,6 +309,22 @@ type LinerResult struct {
 	// counter-clockwise from the local x (east) axis, in [0, 180).
 	SheetAngleDeg float64 `json:"sheet_angle_deg"`
 	SheetAreaM2   float64 `json:"sheet_area_m2"`
+	// StockSheetLengthM, StockSheetWidthM, StockSheetAngleDeg and
+	// StockSheetAreaM2 are the sheet the stock is ordered for: over all
+	// angles, the one that needs the least stock area, ties to the smaller
+	// sheet. Sides include 2 × overlap, the length is the longer side and
+	// the angle its direction, as for the least sheet, which it is unless
+	// another angle takes less stock. The stock, waste, weight and
+	// underlayment are for this sheet.
+	StockSheetLengthM  float64 `json:"stock_sheet_length_m"`
+	StockSheetWidthM   float64 `json:"stock_sheet_width_m"`
+	StockSheetAngleDeg float64 `json:"stock_sheet_angle_deg"`
+	StockSheetAreaM2   float64 `json:"stock_sheet_area_m2"`
+	// StockLengthAngleDeg is the direction in which to lay the stock
+	// panels' length, degrees counter-clockwise from east in [0, 180):
+	// StockSheetAngleDeg when the panels' length runs along the sheet's
+	// length, 90° more when the stock is turned.
+	StockLengthAngleDeg float64 `json:"stock_length_angle_deg"`
 	// SectionMethod says how the final cross-sections were measured:
 	// "analytic" (the design's bowl, zone edges as breakpoints) or "mesh".
 	SectionMethod string `json:"section_method"`
@@ -411,6 +453,84 @@ func MeasureLiner(in LinerInput, o LinerOptions) (LinerResult, *UnderlaymentResu
 			ext = max(ext, hull[i].Distance(hull[j]))
 		}
 	}
+	s := newSheetSearch(in, o, cell, hull, ext, overlap)
+	res.SectionMethod = "mesh"
+	if s.guided {
+		res.SectionMethod = "analytic"
+	}
+	fit := s.run([]float64{res.RimRect.AngleDeg})
+	res.SheetLengthM, res.SheetWidthM, res.SheetAngleDeg = fit.sheet(overlap)
+	res.SheetAreaM2 = res.SheetLengthM * res.SheetWidthM
+
+	// The stock: the least sheet's order, then the angle whose sheet takes
+	// the least stock.
+	if _, _, err := ChooseStock(res.SheetLengthM, res.SheetWidthM, stock); err != nil {
+		return res, nil, nil, err
+	}
+	ws := slices.Sorted(slices.Values(stock.WidthsM))
+	ls := slices.Sorted(slices.Values(stock.LengthsM))
+	choose := func(along, across float64) (StockOrder, bool) {
+		o, _, ok := pickStock(along+2*overlap, across+2*overlap, ws, ls, stock.SeamOverlapM)
+		return o, ok
+	}
+	sf := s.cheapestStock(fit, choose)
+	res.StockSheetLengthM, res.StockSheetWidthM, res.StockSheetAngleDeg = sf.sheet(overlap)
+	res.StockSheetAreaM2 = res.StockSheetLengthM * res.StockSheetWidthM
+	order, seamed, err := ChooseStock(res.StockSheetLengthM, res.StockSheetWidthM, stock)
+	if err != nil {
+		return res, nil, nil, err
+	}
+	res.Stock = order
+	res.StockLengthAngleDeg = res.StockSheetAngleDeg
+	if !order.lengthAlong(res.StockSheetLengthM, res.StockSheetWidthM) {
+		res.StockLengthAngleDeg = normAngle(res.StockSheetAngleDeg + 90)
+	}
+	if seamed {
+		warn = append(warn, fmt.Sprintf(
+			"no stock sheet covers the %.2f × %.2f m liner sheet (largest stock %.2f m wide, %.2f m long): order %d panels of %.2f × %.2f m with %d seam(s) of %.3f m overlap",
+			res.StockSheetLengthM, res.StockSheetWidthM, slices.Max(stock.WidthsM), slices.Max(stock.LengthsM),
+			order.Panels, order.PanelWidthM, order.PanelLengthM, order.Seams, order.SeamOverlapM))
+	}
+	res.WasteRatio = order.AreaM2 / res.LinerAreaM2
+	res.WasteM2 = order.AreaM2 - res.LinerAreaM2
+	res.Material = mat
+	res.WeightKg = order.AreaM2 * mat.MassPerAreaKgM2()
+	res.WeightLb = res.WeightKg / units.Pound
+	res.Notes = []string{
+		fmt.Sprintf("developed area: 3-D area of the bowl below the rim at %.3f m; the overlap adds rim perimeter × %.3f m", R, overlap),
+		"sheet: for each angle, the longest developed cross-section along it and across it, each plus 2 × overlap; angle in degrees counter-clockwise from east",
+		"stock: over all angles, the sheet that takes the least stock area (ties to the smaller sheet); the stock, waste, weight and underlayment are for that sheet laid at its angle",
+		"rule of thumb: L + 2·Dmax + 2·overlap by W + 2·Dmax + 2·overlap, L × W the rim outline's minimum-area rectangle, Dmax from the rim to the deepest point",
+		"waste: stock area ordered / (developed area + overlap area)",
+	}
+	if res.SectionMethod == "mesh" {
+		res.Notes = append(res.Notes, "sheet measured on the mesh (no analytic bowl): vertical walls are smeared over one mesh cell")
+	}
+
+	if o.NoUnderlayment {
+		return res, nil, warn, nil
+	}
+	g := o.Underlayment
+	if g == (Geotextile{}) {
+		g = underlaymentPresets[0]
+	}
+	if !(g.GramsPerM2 > 0) || math.IsInf(g.GramsPerM2, 0) {
+		return res, nil, nil, optionError("underlayment weight", g.GramsPerM2, "> 0 g/m²")
+	}
+	u := &UnderlaymentResult{Material: g, SheetLengthM: res.StockSheetLengthM, SheetWidthM: res.StockSheetWidthM}
+	u.AreaM2 = res.StockSheetAreaM2
+	u.AreaSquareYd = u.AreaM2 / units.SquareYard
+	u.WeightKg = u.AreaM2 * g.GramsPerM2 / 1000
+	u.WeightLb = u.WeightKg / units.Pound
+	return res, u, warn, nil
+}
+
+// newSheetSearch sets up the sheet search over the lined part of in's mesh
+// (cell its lattice spacing, hull the convex hull of the rim outline, ext
+// the hull's diameter): a raster of the mesh for the coarse and fine
+// stages, and the analytic bowl for the exact stage when in has one.
+func newSheetSearch(in LinerInput, o LinerOptions, cell float64, hull []geom.Vec2, ext, overlap float64) *sheetSearch {
+	R, m := in.RimM, in.Mesh
 	// The raster ranks angles; half a mesh cell resolves the mesh, and
 	// maxRasterSteps across the pond is enough to rank a large one.
 	hr := max(cell/2, ext/maxRasterSteps)
@@ -429,9 +549,10 @@ func MeasureLiner(in LinerInput, o LinerOptions) (LinerResult, *UnderlaymentResu
 		overlap:     overlap,
 		coarseLines: 32,
 		fineLines:   64,
+		hopeTol:     2*resol + 4*ras.h,
+		fineStep:    ras.h,
 	}
 	s.exact, s.exactLines = s.fine, s.fineLines
-	res.SectionMethod = "mesh"
 	if in.Bowl != nil {
 		// The coarse step along a line: 1/48 of the extent, and at most half
 		// the narrowest sloped wall band (run of a wall from its floor to the
@@ -471,66 +592,13 @@ func MeasureLiner(in LinerInput, o LinerOptions) (LinerResult, *UnderlaymentResu
 		s.exactLines = s.fineLines
 		s.guided = true
 		s.slack = slack
-		res.SectionMethod = "analytic"
 	}
 	if o.SectionSpacingM > 0 {
 		// Lines across the widest extent at the given spacing.
 		s.exactLines = max(1, int(math.Ceil(ext/o.SectionSpacingM)))
 		s.fineLines = s.exactLines
 	}
-	fit := s.run([]float64{res.RimRect.AngleDeg})
-	along, across, ang := fit.along, fit.across, fit.angleDeg
-	if across > along {
-		along, across = across, along
-		ang = normAngle(ang + 90)
-	}
-	res.SheetLengthM = along + 2*overlap
-	res.SheetWidthM = across + 2*overlap
-	res.SheetAngleDeg = ang
-	res.SheetAreaM2 = res.SheetLengthM * res.SheetWidthM
-
-	order, seamed, err := ChooseStock(res.SheetLengthM, res.SheetWidthM, stock)
-	if err != nil {
-		return res, nil, nil, err
-	}
-	res.Stock = order
-	if seamed {
-		warn = append(warn, fmt.Sprintf(
-			"no stock sheet covers the %.2f × %.2f m liner sheet (largest stock %.2f m wide, %.2f m long): order %d panels of %.2f × %.2f m with %d seam(s) of %.3f m overlap",
-			res.SheetLengthM, res.SheetWidthM, slices.Max(stock.WidthsM), slices.Max(stock.LengthsM),
-			order.Panels, order.PanelWidthM, order.PanelLengthM, order.Seams, order.SeamOverlapM))
-	}
-	res.WasteRatio = order.AreaM2 / res.LinerAreaM2
-	res.WasteM2 = order.AreaM2 - res.LinerAreaM2
-	res.Material = mat
-	res.WeightKg = order.AreaM2 * mat.MassPerAreaKgM2()
-	res.WeightLb = res.WeightKg / units.Pound
-	res.Notes = []string{
-		fmt.Sprintf("developed area: 3-D area of the bowl below the rim at %.3f m; the overlap adds rim perimeter × %.3f m", R, overlap),
-		"sheet: for each angle, the longest developed cross-section along it and across it, each plus 2 × overlap; angle in degrees counter-clockwise from east",
-		"rule of thumb: L + 2·Dmax + 2·overlap by W + 2·Dmax + 2·overlap, L × W the rim outline's minimum-area rectangle, Dmax from the rim to the deepest point",
-		"waste: stock area ordered / (developed area + overlap area)",
-	}
-	if res.SectionMethod == "mesh" {
-		res.Notes = append(res.Notes, "sheet measured on the mesh (no analytic bowl): vertical walls are smeared over one mesh cell")
-	}
-
-	if o.NoUnderlayment {
-		return res, nil, warn, nil
-	}
-	g := o.Underlayment
-	if g == (Geotextile{}) {
-		g = underlaymentPresets[0]
-	}
-	if !(g.GramsPerM2 > 0) || math.IsInf(g.GramsPerM2, 0) {
-		return res, nil, nil, optionError("underlayment weight", g.GramsPerM2, "> 0 g/m²")
-	}
-	u := &UnderlaymentResult{Material: g, SheetLengthM: res.SheetLengthM, SheetWidthM: res.SheetWidthM}
-	u.AreaM2 = res.SheetAreaM2
-	u.AreaSquareYd = u.AreaM2 / units.SquareYard
-	u.WeightKg = u.AreaM2 * g.GramsPerM2 / 1000
-	u.WeightLb = u.WeightKg / units.Pound
-	return res, u, warn, nil
+	return s
 }
 
 // rimData is the rim outline measured on the mesh: its length and the

@@ -3,6 +3,7 @@ package takeoff
 import (
 	"errors"
 	"math"
+	"sync"
 	"testing"
 
 	"github.com/dugout-estimating/dugout/internal/geom"
@@ -79,6 +80,12 @@ func TestMeasureLiner_RectangleSheet(t *testing.T) {
 		}
 		if res.SheetAngleDeg != 0 {
 			t.Errorf("s=%g: sheet angle = %g°, want 0 (along the floor's long side)", s, res.SheetAngleDeg)
+		}
+		// Turning the sheet lengthens both its sides, so the least sheet
+		// also takes the least stock.
+		if res.StockSheetLengthM != res.SheetLengthM || res.StockSheetWidthM != res.SheetWidthM || res.StockSheetAngleDeg != 0 || res.StockLengthAngleDeg != 0 {
+			t.Errorf("s=%g: stock sheet %.5f × %.5f m at %g° (stock laid at %g°), want the least sheet", s,
+				res.StockSheetLengthM, res.StockSheetWidthM, res.StockSheetAngleDeg, res.StockLengthAngleDeg)
 		}
 		if res.SectionMethod != "analytic" {
 			t.Errorf("s=%g: section method = %q, want analytic", s, res.SectionMethod)
@@ -377,5 +384,269 @@ func TestDefaultStock(t *testing.T) {
 	m := DefaultStock(true)
 	if m.WidthsM[0] != 3 || m.WidthsM[len(m.WidthsM)-1] != 15 || m.LengthsM[len(m.LengthsM)-1] != 30 || m.SeamOverlapM != 0.15 {
 		t.Errorf("metric stock %v × %v", m.WidthsM, m.LengthsM)
+	}
+}
+
+// stockArea returns the stock area ChooseStock buys for a sheet, +Inf when
+// none covers it.
+func stockArea(tb testing.TB, l, w float64, st Stock) float64 {
+	tb.Helper()
+	o, _, err := ChooseStock(l, w, st)
+	if err != nil {
+		return math.Inf(1)
+	}
+	return o.AreaM2
+}
+
+func TestMeasureLiner_StockAngleEllipse(t *testing.T) {
+	// An elongated elliptical pool (semi-axes 3 × 1.2 m, long axis at 30°)
+	// with vertical walls: the longest section along any direction φ is
+	// the diameter 2r(φ) of the ellipse, r(ψ) = ab / sqrt((b cos ψ)² +
+	// (a sin ψ)²) with ψ from the long axis, plus the two walls
+	// (geometry). The least sheet is square, at 45° to the axis (75°), and
+	// no 5 m wide stock covers it; 5 × 9 m stock covers the sheets within
+	// about 17° of the axis, the least of which lies where the width
+	// reaches 5 m. The takeoff must find what a brute-force scan of the
+	// analytic sheet every 0.01° finds.
+	const a, b, rotDeg = 3.0, 1.2, 30.0
+	const w, d, fb = 100.0, 0.8, 0.15
+	H := d + fb
+	o := DefaultOverlapM
+	st := Stock{WidthsM: []float64{5}, LengthsM: []float64{9, 12}, SeamOverlapM: 0.15}
+	rot := rotDeg * math.Pi / 180
+	c := geom.Vec2{X: 0.13, Y: -0.07}
+	ring := ellipseRing(geom.Vec2{}, a, b, 720)
+	for i, p := range ring {
+		ring[i] = c.Add(geom.Vec2{X: p.X*math.Cos(rot) - p.Y*math.Sin(rot), Y: p.X*math.Sin(rot) + p.Y*math.Cos(rot)})
+	}
+	side := func(deg float64) float64 {
+		psi := (deg - rotDeg) * math.Pi / 180
+		r := a * b / math.Hypot(b*math.Cos(psi), a*math.Sin(psi))
+		return 2*r + 2*H + 2*o
+	}
+	// Brute force over angles.
+	bestStock, bestArea, smallest := math.Inf(1), math.Inf(1), math.Inf(1)
+	for k := range 9000 {
+		deg := float64(k) * 0.01
+		l, wd := side(deg), side(deg+90)
+		smallest = min(smallest, l*wd)
+		sa := stockArea(t, l, wd, st)
+		if sa < bestStock*(1-1e-9) {
+			bestStock, bestArea = sa, l*wd
+		} else if sa <= bestStock*(1+1e-9) {
+			bestArea = min(bestArea, l*wd)
+		}
+	}
+	pc := onePond(t, ring, w, d, fb, 0, 0.1)
+	res, u, _, err := MeasureLiner(pc.liner(), LinerOptions{Stock: st})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// The least sheet is still reported: the analytic sheet at its angle
+	// (1 mm), and near the least area. The area is flat about its minimum
+	// and a raster of smeared vertical walls ranks the angles only
+	// roughly: 0.3 % here (78.6° against 75°), so allow 0.5 %.
+	if wl, ww := side(res.SheetAngleDeg), side(res.SheetAngleDeg+90); math.Abs(res.SheetLengthM-wl) > sheetTolM || math.Abs(res.SheetWidthM-ww) > sheetTolM {
+		t.Errorf("least sheet %.5f × %.5f m at %.3f°, want %.5f × %.5f", res.SheetLengthM, res.SheetWidthM, res.SheetAngleDeg, wl, ww)
+	}
+	if !(res.SheetAreaM2 <= smallest*1.005) {
+		t.Errorf("least sheet %.4f × %.4f m = %.4f m², want %.4f (brute force) + 0.5 %%", res.SheetLengthM, res.SheetWidthM, res.SheetAreaM2, smallest)
+	}
+	if sa := stockArea(t, res.SheetLengthM, res.SheetWidthM, st); !(sa > bestStock) {
+		t.Fatalf("the least sheet needs %.2f m² of stock, want more than %.2f (the case must tell the two apart)", sa, bestStock)
+	}
+	if res.Stock.AreaM2 != bestStock || res.Stock.Panels != 1 {
+		t.Errorf("stock %+v, want one sheet of %.2f m² (brute force)", res.Stock, bestStock)
+	}
+	// Ties go to the smaller sheet: the takeoff stops refining once the
+	// raster promises less than 0.1 % more, and the angle is found to
+	// 0.05°, where the area changes by 0.4 m²/° (0.05 %); allow 0.5 %.
+	if !(res.StockSheetAreaM2 <= bestArea*1.005) {
+		t.Errorf("stock sheet %.4f m², want at most %.4f (brute force) + 0.5 %%", res.StockSheetAreaM2, bestArea)
+	}
+	// The stock sheet is the analytic sheet at its angle, and fits.
+	wl, ww := side(res.StockSheetAngleDeg), side(res.StockSheetAngleDeg+90)
+	if math.Abs(res.StockSheetLengthM-wl) > sheetTolM || math.Abs(res.StockSheetWidthM-ww) > sheetTolM {
+		t.Errorf("stock sheet %.5f × %.5f m at %.3f°, want %.5f × %.5f", res.StockSheetLengthM, res.StockSheetWidthM, res.StockSheetAngleDeg, wl, ww)
+	}
+	if !(res.StockSheetWidthM <= 5+stockFitTolM && res.StockSheetLengthM <= 9+stockFitTolM) {
+		t.Errorf("stock sheet %.5f × %.5f m does not fit 5 × 9 m", res.StockSheetLengthM, res.StockSheetWidthM)
+	}
+	if res.StockLengthAngleDeg != res.StockSheetAngleDeg {
+		t.Errorf("stock laid at %g°, want along the sheet at %g°", res.StockLengthAngleDeg, res.StockSheetAngleDeg)
+	}
+	// The order follows the stock sheet.
+	if u == nil || u.SheetLengthM != res.StockSheetLengthM || u.SheetWidthM != res.StockSheetWidthM || u.AreaM2 != res.StockSheetAreaM2 {
+		t.Errorf("underlayment %+v, want the stock sheet", u)
+	}
+	if want := res.Stock.AreaM2 * res.Material.MassPerAreaKgM2(); res.WeightKg != want || res.WasteM2 != res.Stock.AreaM2-res.LinerAreaM2 {
+		t.Errorf("weight %g kg (want %g), waste %g m²", res.WeightKg, want, res.WasteM2)
+	}
+}
+
+// bruteSection returns the longest developed section of pc's bowl along
+// direction deg by brute force: DevelopedLength on parallel lines every
+// 5 cm across the pond, then every 2 mm within 5 cm of the best.
+func bruteSection(pc pondCase, deg float64) float64 {
+	var rings []geom.Ring
+	var vertical []bool
+	box := geom.EmptyBox()
+	for _, z := range pc.zones {
+		rings = append(rings, z.Ring)
+		vertical = append(vertical, z.WallSlope == 0)
+		box = box.Union(z.Ring.Bounds().Expand(z.WallSlope * (pc.rim - (pc.w - z.DepthM))))
+	}
+	c := box.Center()
+	R := math.Hypot(box.Width(), box.Height())/2 + 0.5
+	th := deg * math.Pi / 180
+	u := geom.Vec2{X: math.Cos(th), Y: math.Sin(th)}
+	n := geom.Vec2{X: -u.Y, Y: u.X}
+	f := func(b float64) float64 {
+		p := c.Add(n.Scale(b))
+		v, _ := DevelopedLength(pc.bowl, pc.rim, rings, vertical, p.Sub(u.Scale(R)), p.Add(u.Scale(R)), 0.1)
+		return v
+	}
+	best, bb := 0.0, 0.0
+	for b := -R; b <= R; b += 0.05 {
+		if v := f(b); v > best {
+			best, bb = v, b
+		}
+	}
+	for b := bb - 0.05; b <= bb+0.05; b += 0.002 {
+		best = max(best, f(b))
+	}
+	return best
+}
+
+func TestMeasureLiner_StockAngleLShape(t *testing.T) {
+	// An L-shaped floor (a 5 × 1.5 m leg and a 1.5 × 4 m leg, turned 20°)
+	// with 1:1 walls. Its least sheet, about 30.4 × 17.5 ft near 65°,
+	// needs the 23 × 31 ft stock of this list; the local minimum at 20°,
+	// about 25.4 × 22.1 ft, fits 23 × 26 ft. Brute force every 1° over
+	// [0°, 180°) with DevelopedLength on parallel lines gives the least
+	// stock and the least sheet that takes it; the takeoff must match
+	// them (it searches continuously, so it may do a little better).
+	if testing.Short() {
+		t.Skip("brute force over angles takes about a second")
+	}
+	const w, d, fb, s = 100.0, 0.6, 0.15, 1.0
+	ft := units.Foot
+	ring := geom.Ring{{X: 0, Y: 0}, {X: 5, Y: 0}, {X: 5, Y: 1.5}, {X: 1.5, Y: 1.5}, {X: 1.5, Y: 4}, {X: 0, Y: 4}}
+	rot := 20 * math.Pi / 180
+	for i, p := range ring {
+		ring[i] = geom.Vec2{X: p.X*math.Cos(rot) - p.Y*math.Sin(rot) + 0.11, Y: p.X*math.Sin(rot) + p.Y*math.Cos(rot) - 0.07}
+	}
+	st := Stock{WidthsM: []float64{23 * ft}, LengthsM: []float64{26 * ft, 31 * ft}, SeamOverlapM: 0.15}
+	pc := onePond(t, ring, w, d, fb, s, 0.05)
+	res, _, _, err := MeasureLiner(pc.liner(), LinerOptions{Stock: st})
+	if err != nil {
+		t.Fatal(err)
+	}
+	o := DefaultOverlapM
+
+	lens := make([]float64, 180)
+	var wg sync.WaitGroup
+	for g := range 2 {
+		wg.Go(func() {
+			for k := g; k < len(lens); k += 2 {
+				lens[k] = bruteSection(pc, float64(k)) + 2*o
+			}
+		})
+	}
+	wg.Wait()
+	bestStock, bestArea, smallest := math.Inf(1), math.Inf(1), math.Inf(1)
+	for k := range 90 {
+		l, wd := lens[k], lens[k+90]
+		smallest = min(smallest, l*wd)
+		sa := stockArea(t, l, wd, st)
+		if sa < bestStock*(1-1e-9) {
+			bestStock, bestArea = sa, l*wd
+		} else if sa <= bestStock*(1+1e-9) {
+			bestArea = min(bestArea, l*wd)
+		}
+	}
+	if want := 23 * 26 * ft * ft; !closeRel(bestStock, want, 1e-12, 0) {
+		t.Fatalf("brute force: least stock %.3f m², want 23 × 26 ft = %.3f (the case is built for it)", bestStock, want)
+	}
+	if sa := stockArea(t, res.SheetLengthM, res.SheetWidthM, st); !(sa > bestStock) {
+		t.Fatalf("the least sheet needs %.2f m² of stock, want more than %.2f", sa, bestStock)
+	}
+	if res.Stock.AreaM2 > bestStock*(1+1e-12) {
+		t.Errorf("stock %+v (%.3f m²), want %.3f m² (brute force)", res.Stock, res.Stock.AreaM2, bestStock)
+	}
+	// The stock sheet: an interior minimum of the area, found to 0.05° on
+	// the raster and measured exactly; 0.5 % covers the raster's ranking.
+	if !(res.StockSheetAreaM2 <= bestArea*1.005) {
+		t.Errorf("stock sheet %.4f m², want at most %.4f (brute force) + 0.5 %%", res.StockSheetAreaM2, bestArea)
+	}
+	// Both sheets are what brute force measures at their angles, to
+	// kinkTolM: near 20° and 110° the longest section passes the L's inner
+	// corner, where its length has a kinked top over the line's offset,
+	// and the exact stage (lines a 64th of the width apart, then parabolic
+	// steps, which stop at a kink) comes out up to 2 mm short.
+	const kinkTolM = 2.5e-3
+	for _, sh := range []struct {
+		name      string
+		l, w, deg float64
+	}{
+		{"least sheet", res.SheetLengthM, res.SheetWidthM, res.SheetAngleDeg},
+		{"stock sheet", res.StockSheetLengthM, res.StockSheetWidthM, res.StockSheetAngleDeg},
+	} {
+		wl, ww := bruteSection(pc, sh.deg)+2*o, bruteSection(pc, sh.deg+90)+2*o
+		if math.Abs(sh.l-wl) > kinkTolM || math.Abs(sh.w-ww) > kinkTolM {
+			t.Errorf("%s %.5f × %.5f m at %.3f°, want %.5f × %.5f (brute force)", sh.name, sh.l, sh.w, sh.deg, wl, ww)
+		}
+	}
+	// The least sheet is within 1 % of brute force's least: the search
+	// refines the raster's angle, and at this pond's kinked minimum the
+	// raster ranks angles to about 1.5° (0.6 % here).
+	if !(res.SheetAreaM2 <= smallest*1.01) {
+		t.Errorf("least sheet %.4f m², want at most %.4f (brute force) + 1 %%", res.SheetAreaM2, smallest)
+	}
+}
+
+func TestStockOrder_LayAndGap(t *testing.T) {
+	// Panels of w × l with n − 1 seams of lap s cover n·size − (n − 1)·s
+	// along each side (plain arithmetic); the gap is the larger overrun of
+	// the sheet's two sides in the better way of laying the panels.
+	one := StockOrder{PanelWidthM: 10, PanelLengthM: 4, Panels: 1, PanelsAcross: 1, PanelsAlong: 1}
+	two := StockOrder{PanelWidthM: 3, PanelLengthM: 10, Panels: 2, PanelsAcross: 2, PanelsAlong: 1, Seams: 1, SeamOverlapM: 0.2}
+	for _, tc := range []struct {
+		name    string
+		o       StockOrder
+		l, w    float64
+		along   bool
+		wantGap float64
+	}{
+		{"turned to fit", one, 9, 3, false, -1},
+		{"laid along", one, 3.5, 2, true, -2},
+		{"overruns by 0.5 m", one, 10.5, 3, false, 0.5},
+		{"two panels across", two, 9, 5.5, true, -0.3},
+		{"two panels too narrow", two, 9, 6, true, 0.2},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			if got := tc.o.gap(tc.l, tc.w); math.Abs(got-tc.wantGap) > 1e-12 {
+				t.Errorf("gap(%g, %g) = %g, want %g", tc.l, tc.w, got, tc.wantGap)
+			}
+			if tc.wantGap <= 0 {
+				if got := tc.o.lengthAlong(tc.l, tc.w); got != tc.along {
+					t.Errorf("lengthAlong(%g, %g) = %v, want %v", tc.l, tc.w, got, tc.along)
+				}
+			}
+		})
+	}
+}
+
+func TestMeasureLiner_StockTurned(t *testing.T) {
+	// The rectangle of TestMeasureLiner_RectangleSheet at s = 1.5 needs an
+	// 8.04 × 6.54 m sheet along x. Stock 9 m wide and 7 m long covers it
+	// only turned: its length runs across the sheet, at 90°.
+	pc := onePond(t, rectRing(0.037, 0.011, 4.037, 2.511), 100, 0.8, 0.15, 1.5, 0.1)
+	res, _, _, err := MeasureLiner(pc.liner(), LinerOptions{Stock: Stock{WidthsM: []float64{9}, LengthsM: []float64{7}}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.StockSheetAngleDeg != 0 || res.StockLengthAngleDeg != 90 || res.Stock.PanelLengthM != 7 || res.Stock.Panels != 1 {
+		t.Errorf("stock %+v, sheet at %g°, stock laid at %g°: want one 9 × 7 m sheet laid at 90°", res.Stock, res.StockSheetAngleDeg, res.StockLengthAngleDeg)
 	}
 }

@@ -44,6 +44,19 @@ type sheetSearch struct {
 	// steadyRaster reports that the raster resolves every wall (none is
 	// steeper than two lattice cells of run), so it may rule angles out.
 	steadyRaster bool
+
+	// scan holds the coarse scan's longest lengths, θ every coarseStepDeg
+	// over [0°, 180°), once run has been called; cheapestStock reads it.
+	scan []float64
+	// hopeTol is how much the coarse raster may overstate a sheet's side
+	// (m): a coarse step (two raster cells) and a cell of smeared wall at
+	// each end.
+	hopeTol float64
+	// fineStep is the fine raster's sampling step (m).
+	fineStep float64
+	// coarseCache holds the coarse raster's lengths by angle (degrees) off
+	// the scan's grid, fineCache the fine raster's at every angle measured.
+	coarseCache, fineCache map[float64]lengths
 }
 
 const (
@@ -76,6 +89,18 @@ const (
 // angle (without overlap), the angle in degrees.
 type sheetFit struct {
 	along, across, angleDeg float64
+}
+
+// sheet returns the fit as a sheet with 2 × overlap on each side: its
+// length (the longer side), width, and the length's direction in degrees in
+// [0, 180).
+func (f sheetFit) sheet(overlap float64) (lengthM, widthM, angleDeg float64) {
+	along, across, ang := f.along, f.across, normAngle(f.angleDeg)
+	if across > along {
+		along, across = across, along
+		ang = normAngle(ang + 90)
+	}
+	return along + 2*overlap, across + 2*overlap, ang
 }
 
 // area measures the sheet at deg on p, the two directions on two
@@ -134,6 +159,7 @@ func (s *sheetSearch) run(extra []float64) sheetFit {
 		})
 	}
 	wg.Wait()
+	s.scan = f
 	half := nc / 2
 	area := make([]float64, half)
 	for j := range half {
