@@ -86,6 +86,13 @@
 // box on flat ground gives L × W × depth to round-off. (Where two vertical
 // walls cross one cell, that cell is interpolated.)
 //
+// Results do not depend on the number of processors or on scheduling:
+// the bowl field is computed on fixed tiles, each node from its own tile's
+// candidates, and every integral sums fixed bands of cell rows whose
+// compensated totals are merged in band order; no sum runs over a map. A
+// build with fused multiply-add (GOAMD64=v3, or arm64) may differ in the
+// last bits, as Go allows (the spec's "Floating-point operators").
+//
 // Earthwork that needs ground beyond the survey fails with an
 // [*OffSurveyError] saying how far beyond; other problems are collected in
 // Surface.Warnings. Outlines with shelves ([Outline.Zones]) are turned into
