@@ -632,11 +632,13 @@ func drawContours(d *svgDoc, t paperTransform, cs []PlanContour, sys units.Syste
 	d.close("g")
 
 	// Labels: on index contours, one per 100 mm of line on paper, none on
-	// lines shorter than 20 mm.
-	const labelEveryMM, minLineMM, size = 100.0, 20.0, 1.8
-	d.open("g", "class", class+"-contour-labels", "font-size", svgNum(size), "fill", colour, "text-anchor", "middle",
+	// lines shorter than 20 mm, and none where the set's other levels run
+	// closer than a label's height (see labelPlacer).
+	const labelEveryMM, minLineMM = 100.0, 20.0
+	d.open("g", "class", class+"-contour-labels", "font-size", svgNum(contourLabelMM), "fill", colour, "text-anchor", "middle",
 		"stroke", colHalo, "stroke-width", "0.6", "paint-order", "stroke", "stroke-linejoin", "round")
-	for _, c := range cs {
+	lp := newLabelPlacer(t, cs)
+	for li, c := range cs {
 		if !c.Index {
 			continue
 		}
@@ -649,15 +651,224 @@ func drawContours(d *svgDoc, t paperTransform, cs []PlanContour, sys units.Syste
 			}
 			n := max(1, int(length/labelEveryMM))
 			for k := range n {
-				at, angle := pointAlong(paper, length*(float64(k)+0.5)/float64(n))
-				if !insideMap(at) {
+				at, angle, ok := lp.place(paper, length, k, n, li, text)
+				if !ok {
 					continue
 				}
-				d.text(at.X, at.Y+size*0.35, text, "transform", "rotate("+svgNum(angle)+" "+svgNum(at.X)+" "+svgNum(at.Y)+")")
+				d.text(at.X, at.Y+contourLabelMM*0.35, text, "transform", "rotate("+svgNum(angle)+" "+svgNum(at.X)+" "+svgNum(at.Y)+")")
 			}
 		}
 	}
 	d.close("g")
+}
+
+// Contour label sizes on paper (mm).
+const (
+	// contourLabelMM is the height of a contour label's text.
+	contourLabelMM = 1.8
+	// digitWidthEm is the advance of a digit or point in the sheet's sans
+	// serif face, in ems: DejaVu Sans digits are 0.636 em, the point 0.318
+	// em (from memory of its metrics); the larger is taken for every
+	// character so that the estimate errs wide.
+	digitWidthEm = 0.64
+	// labelBucketMM is the side of the buckets the contour segments are
+	// filed in for the crowding test: two label heights, so that a query
+	// visits a few buckets.
+	labelBucketMM = 2 * contourLabelMM
+	// besideGapMM is the clear space between a label set beside its line
+	// (at the top or the bottom of a crowded run of contours) and the line.
+	besideGapMM = 0.4
+)
+
+// labelPlacer finds places for contour labels where the set's other levels
+// leave room. A label is centred on its line, along it; it is crowded when
+// a line of another level comes within one label height of its axis (its
+// centre line, as long as the text), since that line would then cross the
+// text or its halo. Along a vertical wall every level of the wall runs in
+// one lattice cell, a fraction of a millimetre on paper, and the labels of
+// all of them would pile up there.
+//
+// Each label slot (a stretch of line) is tried at its middle, then at
+// points up to 0.45 of the slot either side, so that a label slides off a
+// crowded stretch onto a clear one of its line. Where the whole slot is
+// crowded, the label is set beside its line, on the side where no line of
+// any level comes within a label height: that is possible only at the top
+// and the bottom level of a crowded run, so a vertical wall gets its top
+// and bottom labelled and nothing between. Labels also keep a label height
+// clear of the labels already placed. Positions are tried in a fixed
+// order, so the drawing stays deterministic.
+type labelPlacer struct {
+	segs    []labelSeg
+	buckets [][]int32 // segment indices by bucket, row by row
+	nx, ny  int
+	seen    []int32 // per segment: the query that last visited it
+	query   int32
+	placed  [][2]geom.Vec2 // axes of the labels placed
+}
+
+// labelSeg is one segment of a contour line on paper and its level's
+// index in the set.
+type labelSeg struct {
+	a, b  geom.Vec2
+	level int
+}
+
+func newLabelPlacer(t paperTransform, cs []PlanContour) *labelPlacer {
+	lp := &labelPlacer{nx: int(math.Ceil(planMapW / labelBucketMM)), ny: int(math.Ceil(planMapH / labelBucketMM))}
+	lp.buckets = make([][]int32, lp.nx*lp.ny)
+	if !slices.ContainsFunc(cs, func(c PlanContour) bool { return c.Index }) {
+		return lp // no labels to place
+	}
+	var paper []geom.Vec2
+	for li, c := range cs {
+		for _, l := range c.Lines {
+			paper = toPaper(paper[:0], t, l)
+			for i := 1; i < len(paper); i++ {
+				a, b := paper[i-1], paper[i]
+				i0, j0, i1, j1, ok := lp.span(geom.BoxOf([]geom.Vec2{a, b}))
+				if !ok {
+					continue
+				}
+				k := int32(len(lp.segs))
+				lp.segs = append(lp.segs, labelSeg{a, b, li})
+				for j := j0; j <= j1; j++ {
+					for i := i0; i <= i1; i++ {
+						lp.buckets[j*lp.nx+i] = append(lp.buckets[j*lp.nx+i], k)
+					}
+				}
+			}
+		}
+	}
+	lp.seen = make([]int32, len(lp.segs))
+	return lp
+}
+
+// span returns the buckets a paper box covers, clamped to the map; ok is
+// false for a box wholly off the map.
+func (lp *labelPlacer) span(b geom.Box) (i0, j0, i1, j1 int, ok bool) {
+	if b.Max.X < 0 || b.Max.Y < 0 || b.Min.X > planMapW || b.Min.Y > planMapH {
+		return 0, 0, 0, 0, false
+	}
+	cl := func(v float64, n int) int { return min(max(int(math.Floor(v/labelBucketMM)), 0), n-1) }
+	return cl(b.Min.X, lp.nx), cl(b.Min.Y, lp.ny), cl(b.Max.X, lp.nx), cl(b.Max.Y, lp.ny), true
+}
+
+// clear reports whether no segment comes within r of the axis pq, leaving
+// out the segments of level skip (−1 to leave out none), and no label
+// placed comes within a label height of it.
+func (lp *labelPlacer) clear(p, q geom.Vec2, r float64, skip int) bool {
+	for _, ax := range lp.placed {
+		if segDist(p, q, ax[0], ax[1]) < contourLabelMM {
+			return false
+		}
+	}
+	i0, j0, i1, j1, ok := lp.span(geom.BoxOf([]geom.Vec2{p, q}).Expand(r))
+	if !ok {
+		return true
+	}
+	lp.query++
+	for j := j0; j <= j1; j++ {
+		for i := i0; i <= i1; i++ {
+			for _, k := range lp.buckets[j*lp.nx+i] {
+				if lp.seen[k] == lp.query {
+					continue
+				}
+				lp.seen[k] = lp.query
+				if s := &lp.segs[k]; s.level != skip && segDist(p, q, s.a, s.b) < r {
+					return false
+				}
+			}
+		}
+	}
+	return true
+}
+
+// place returns where to put label k of n along the paper polyline pts
+// (of length length, level li) and its angle, or ok false when every
+// place of its slot is crowded (see labelPlacer).
+func (lp *labelPlacer) place(pts []geom.Vec2, length float64, k, n, li int, text string) (at geom.Vec2, angle float64, ok bool) {
+	h := contourLabelMM
+	half := 0.5*digitWidthEm*h*float64(len(text)) + 0.3 // the halo
+	slot := length / float64(n)
+	// Offsets along the slot, as fractions of it: the middle first, then
+	// outwards in twentieths.
+	var offsets [19]float64
+	for i := 1; i < len(offsets); i += 2 {
+		offsets[i], offsets[i+1] = 0.05*float64(i/2+1), -0.05*float64(i/2+1)
+	}
+	axis := func(c, u geom.Vec2) (geom.Vec2, geom.Vec2) { return c.Sub(u.Scale(half)), c.Add(u.Scale(half)) }
+	for _, f := range offsets {
+		c, ang := pointAlong(pts, slot*(float64(k)+0.5+f))
+		if !insideMap(c) {
+			continue
+		}
+		u := unitAt(ang)
+		if p, q := axis(c, u); lp.clear(p, q, h, li) {
+			lp.placed = append(lp.placed, [2]geom.Vec2{p, q})
+			return c, ang, true
+		}
+	}
+	// Beside the line, at the slot's middle: the text's near edge
+	// besideGapMM from the line, and no line of any level within a label
+	// height of the text's far side.
+	c, ang := pointAlong(pts, slot*(float64(k)+0.5))
+	u := unitAt(ang)
+	nrm := geom.Vec2{X: -u.Y, Y: u.X}
+	for _, side := range [...]float64{1, -1} {
+		b := c.Add(nrm.Scale(side * (0.5*h + besideGapMM)))
+		if !insideMap(b) {
+			continue
+		}
+		p, q := axis(b, u)
+		if lp.clear(p, q, 0.5*h+besideGapMM-labelEpsMM, -1) && lp.clearFar(p, q, nrm.Scale(side), h, li) {
+			lp.placed = append(lp.placed, [2]geom.Vec2{p, q})
+			return b, ang, true
+		}
+	}
+	return geom.Vec2{}, 0, false
+}
+
+// labelEpsMM keeps a label set beside its line from counting that line as
+// crowding it: the line lies exactly 0.5·height + besideGapMM from the
+// label's axis, and round-off must not bring it within. 1 µm on paper.
+const labelEpsMM = 1e-3
+
+// clearFar reports whether, on the far side of a label beside its line
+// (the side dir points to), no line of another level than li comes within
+// a label height of the axis pq: the label then marks the top or bottom
+// of a crowded run, not a level in its middle.
+func (lp *labelPlacer) clearFar(p, q, dir geom.Vec2, h float64, li int) bool {
+	return lp.clear(p.Add(dir.Scale(0.5*h)), q.Add(dir.Scale(0.5*h)), h, li)
+}
+
+// unitAt returns the unit vector at angle deg on paper (y down, as the
+// rotate transform takes it).
+func unitAt(deg float64) geom.Vec2 {
+	r := deg * math.Pi / 180
+	return geom.Vec2{X: math.Cos(r), Y: math.Sin(r)}
+}
+
+// segDist returns the distance between segments ab and cd (0 when they
+// cross). Drawing only: the crossing test is a plain floating-point one.
+func segDist(a, b, c, d geom.Vec2) float64 {
+	ab, cd := b.Sub(a), d.Sub(c)
+	d1, d2 := ab.Cross(c.Sub(a)), ab.Cross(d.Sub(a))
+	d3, d4 := cd.Cross(a.Sub(c)), cd.Cross(b.Sub(c))
+	if (d1 > 0) != (d2 > 0) && (d3 > 0) != (d4 > 0) && d1 != 0 && d2 != 0 && d3 != 0 && d4 != 0 {
+		return 0
+	}
+	return min(pointSegDist(a, c, d), pointSegDist(b, c, d), pointSegDist(c, a, b), pointSegDist(d, a, b))
+}
+
+// pointSegDist returns the distance from p to segment ab.
+func pointSegDist(p, a, b geom.Vec2) float64 {
+	ab := b.Sub(a)
+	l2 := ab.Norm2()
+	if l2 == 0 {
+		return p.Distance(a)
+	}
+	t := min(max(p.Sub(a).Dot(ab)/l2, 0), 1)
+	return p.Distance(a.Add(ab.Scale(t)))
 }
 
 // insideMap reports whether a paper point (map viewport coordinates) lies

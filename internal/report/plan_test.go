@@ -456,3 +456,135 @@ func BenchmarkPlanLargeRaster3M(b *testing.B) {
 		}
 	}
 }
+
+// wallPlan is a 4 × 3 m pool 1.2 m deep below a 100 m rim whose 13 design
+// contours, every 0.1 m and all index, lie band apart in plan from one
+// to the next (the bottom one on the floor's edge): band = 5 cm / 12
+// draws a vertical wall smeared over a 5 cm lattice cell, band = 0.1 m a
+// 1:1 wall.
+func wallPlan(band float64) PlanData {
+	p := PlanData{Units: units.Metres, Zones: []PlanZone{{Name: "pool", DepthM: 1.1, Ring: geom.Ring{{X: 0, Y: 0}, {X: 4, Y: 0}, {X: 4, Y: 3}, {X: 0, Y: 3}}}}}
+	for k := range 13 {
+		d := band * float64(k)
+		p.Design = append(p.Design, PlanContour{LevelM: 98.8 + 0.1*float64(k), Index: true,
+			Lines: []geom.Polyline{{{X: -d, Y: -d}, {X: 4 + d, Y: -d}, {X: 4 + d, Y: 3 + d}, {X: -d, Y: 3 + d}, {X: -d, Y: -d}}}})
+	}
+	return p
+}
+
+// contourLabel is a contour label read back from the drawing: its text and
+// the point on paper it is centred on (its rotation centre).
+type contourLabel struct {
+	text string
+	at   geom.Vec2
+}
+
+func designLabels(tb testing.TB, data []byte) (labels []contourLabel, paths int) {
+	tb.Helper()
+	root := parseXML(tb, data)
+	for _, g := range root.find(func(n *xmlNode) bool { return n.Attr["class"] == "design-contours" }) {
+		paths += len(g.find(func(n *xmlNode) bool { return n.Name == "path" }))
+	}
+	for _, g := range root.find(func(n *xmlNode) bool { return n.Attr["class"] == "design-contour-labels" }) {
+		for _, n := range g.find(func(n *xmlNode) bool { return n.Name == "text" }) {
+			f := strings.Fields(strings.TrimSuffix(strings.TrimPrefix(n.Attr["transform"], "rotate("), ")"))
+			if len(f) != 3 {
+				tb.Fatalf("label %q: transform %q, want rotate(a x y)", n.Text, n.Attr["transform"])
+			}
+			x, _ := strconv.ParseFloat(f[1], 64)
+			y, _ := strconv.ParseFloat(f[2], 64)
+			labels = append(labels, contourLabel{n.Text, geom.Vec2{X: x, Y: y}})
+		}
+	}
+	return labels, paths
+}
+
+// ringDistance returns the distance on paper from p to contour c.
+func ringDistance(tr paperTransform, c PlanContour, p geom.Vec2) float64 {
+	d := math.Inf(1)
+	for _, l := range c.Lines {
+		pts := toPaper(nil, tr, l)
+		for i := 1; i < len(pts); i++ {
+			d = math.Min(d, pointSegDist(p, pts[i-1], pts[i]))
+		}
+	}
+	return d
+}
+
+func TestPlan_WallContourLabels(t *testing.T) {
+	// A vertical wall: the 13 contours run 0.08 mm apart on paper (1:50),
+	// and a label on any of them would cover its neighbours. Plain
+	// geometry of the drawing, no outside reference: every line is kept;
+	// only the wall's top (100 m, set outside beside its line) and bottom
+	// (98.8 m, inside) are labelled; labels keep a label height apart.
+	p := wallPlan(0.05 / 12)
+	data := renderPlan(t, p)
+	labels, paths := designLabels(t, data)
+	if paths != len(p.Design) {
+		t.Errorf("%d design contour paths, want %d: the lines are kept", paths, len(p.Design))
+	}
+	denom := standardScale(planNeed(t, p), p.Units)
+	box := planBounds(&p)
+	tr := paperTransform{C: box.Center(), P: geom.Vec2{X: planMapW / 2, Y: planMapH / 2}, Denom: denom}
+	seen := map[string]int{}
+	for i, l := range labels {
+		seen[l.text]++
+		var c PlanContour
+		switch l.text {
+		case "100":
+			c = p.Design[12]
+		case "98.8":
+			c = p.Design[0]
+		default:
+			t.Errorf("label %q at %v: only the wall's top and bottom are labelled", l.text, l.at)
+			continue
+		}
+		// Beside its line, on the open side: outside the pool for the top,
+		// inside for the bottom (0.01 mm, the drawing's number precision).
+		if d, want := ringDistance(tr, c, l.at), 0.5*contourLabelMM+besideGapMM; math.Abs(d-want) > 0.01 {
+			t.Errorf("label %q at %v is %.3f mm from its line, want %.3f beside it", l.text, l.at, d, want)
+		}
+		in := geom.BoxOf(p.Design[0].Lines[0])
+		inside := geom.Box{Min: tr.apply(geom.Vec2{X: in.Min.X, Y: in.Max.Y}), Max: tr.apply(geom.Vec2{X: in.Max.X, Y: in.Min.Y})}.Contains(l.at)
+		if inside != (l.text == "98.8") {
+			t.Errorf("label %q at %v: inside the pool %v", l.text, l.at, inside)
+		}
+		for _, m := range labels[:i] {
+			if d := l.at.Distance(m.at); d < contourLabelMM {
+				t.Errorf("labels %q at %v and %q at %v are %.2f mm apart, under a label height", l.text, l.at, m.text, m.at, d)
+			}
+		}
+	}
+	if seen["100"] == 0 || seen["98.8"] == 0 {
+		t.Errorf("labels %v: want the top (100) and the bottom (98.8) of the wall", seen)
+	}
+}
+
+func TestPlan_SlopedContourLabels(t *testing.T) {
+	// The same levels on a 1:1 wall run 2 mm apart on paper (1:50), more
+	// than a label height: every level is labelled on its line, as before.
+	p := wallPlan(0.1)
+	data := renderPlan(t, p)
+	labels, _ := designLabels(t, data)
+	denom := standardScale(planNeed(t, p), p.Units)
+	box := planBounds(&p)
+	tr := paperTransform{C: box.Center(), P: geom.Vec2{X: planMapW / 2, Y: planMapH / 2}, Denom: denom}
+	byText := map[string]PlanContour{}
+	for _, c := range p.Design {
+		byText[fmtLevelLabel(c.LevelM, p.Units)] = c
+	}
+	seen := map[string]bool{}
+	for _, l := range labels {
+		c, ok := byText[l.text]
+		if !ok {
+			t.Fatalf("label %q is no level of the drawing", l.text)
+		}
+		seen[l.text] = true
+		if d := ringDistance(tr, c, l.at); d > 0.01 {
+			t.Errorf("label %q at %v is %.3f mm off its line, want on it", l.text, l.at, d)
+		}
+	}
+	if len(seen) != len(p.Design) {
+		t.Errorf("%d of %d levels labelled: %v", len(seen), len(p.Design), seen)
+	}
+}
