@@ -79,7 +79,7 @@ func TestFromDesign_VerticalWalls(t *testing.T) {
 
 func TestFromDesign_SlopedZones(t *testing.T) {
 	// A rectangular floor with walls at 1.5:1 and an elliptical one at 1:1:
-	// the sheet against the analytic cross-section (brief's check), the
+	// the sheet against the analytic cross-section (exact geometry), the
 	// developed area against Steiner's formula (on the design's 5 cm
 	// lattice, 0.3 %), the shoreline against the parallel curve's length
 	// P + 2π·s·d (Steiner), and the water against the parallel-set volume.

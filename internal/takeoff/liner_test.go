@@ -62,7 +62,7 @@ func TestMeasureLiner_RectangleSheet(t *testing.T) {
 	// Rectangular floor L × B, walls at s, rim depth H: the longest
 	// cross-section along x crosses the floor and two walls, so the
 	// axis-aligned sheet is (L + 2·sH·sqrt(1 + 1/s²) + 2o) ×
-	// (B + 2·sH·sqrt(1 + 1/s²) + 2o) (brief's analytic check; Pythagoras).
+	// (B + 2·sH·sqrt(1 + 1/s²) + 2o) (analytic: Pythagoras along each wall).
 	const L, B = 4.0, 2.5
 	const w, d, fb = 100.0, 0.8, 0.15
 	H := d + fb
@@ -95,7 +95,7 @@ func TestMeasureLiner_RectangleSheet(t *testing.T) {
 
 func TestMeasureLiner_VerticalWalls(t *testing.T) {
 	// Vertical walls: the sheet must fold down each wall, so it is exactly
-	// the rule of thumb L + 2·depth + 2·overlap (brief's check; geometry).
+	// the rule of thumb L + 2·depth + 2·overlap (exact for vertical walls).
 	// The lattice smears the walls over a cell; the analytic sections do
 	// not. A rotated pool checks the angle search too.
 	const L, B = 4.0, 2.5

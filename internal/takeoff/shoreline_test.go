@@ -52,7 +52,7 @@ func measureOn(t *testing.T, b Bowl, m geom.TriMesh, w float64, zones []Zone, an
 func TestMeasureShoreline_Ellipse(t *testing.T) {
 	// The water line of a basin whose level set is an ellipse, traced on the
 	// lattice: its length against Ramanujan's second approximation (within
-	// 0.1 %, the brief's check) and the shoreline-to-bounding-rectangle
+	// 0.1 %) and the shoreline-to-bounding-rectangle
 	// ratio against check-values.md §7 [derived]: π/4 = 0.7853981634 for a
 	// circle, 0.8073707 for a 2:1 ellipse (also within 0.1 %).
 	const w = 50.0
