@@ -43,7 +43,7 @@ type Job struct {
 	SurveyFiles   []string
 	Survey        survey.Options
 	TIN           tin.Options // Breaklines and Boundary are filled in by Run
-	DropSpikes    bool // leave suspected spikes out of the TIN
+	DropSpikes    bool        // leave suspected spikes out of the TIN
 	BoundaryFile  string
 	BreaklineFile []string
 

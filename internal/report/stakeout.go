@@ -107,5 +107,3 @@ func csvText(s string) string {
 	}
 	return s
 }
-
-
