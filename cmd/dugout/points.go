@@ -206,7 +206,7 @@ func writePointsText(w io.Writer, s *survey.Set, sum *survey.Summary, u units.Sy
 				parts = append(parts, fmt.Sprintf("and %d more", len(sum.Spikes)-5))
 				break
 			}
-			parts = append(parts, fmt.Sprintf("%s (line %d, %+.*f)", sp.Point.ID, sp.Point.Line, dec, sp.BeyondM/u.Metres()))
+			parts = append(parts, fmt.Sprintf("%s (line %d, %+.*f %s beyond its neighbours)", sp.Point.ID, sp.Point.Line, dec, sp.BeyondM/u.Metres(), u))
 		}
 		row("spikes", "%d suspected: %s", len(sum.Spikes), strings.Join(parts, ", "))
 	}
