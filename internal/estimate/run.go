@@ -2,6 +2,7 @@ package estimate
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -248,6 +249,10 @@ func (r *Result) buildDesign() error {
 	p := r.Job.Design
 	p.Zones = r.Zones
 	s, err := design.Build(r.Terrain, p)
+	var off *design.OffSurveyError
+	if errors.As(err, &off) {
+		return r.offSurvey(off, err)
+	}
 	if err != nil {
 		return err
 	}
@@ -309,3 +314,34 @@ func (r *Result) takeoff() error {
 	}
 	return nil
 }
+
+// offSurvey words a design that needs unsurveyed ground in the job's own
+// coordinates and units, and says why when the water level is the cause.
+func (r *Result) offSurvey(off *design.OffSurveyError, err error) error {
+	u := r.Job.OutUnits
+	f := u.Metres()
+	lo := r.Survey.Frame.ToWorld(off.Box.Min)
+	hi := r.Survey.Frame.ToWorld(off.Box.Max)
+	what := "the walls or berm"
+	if off.InBowl {
+		what = "the pond itself"
+	}
+	msg := fmt.Sprintf("%s need ground up to %s beyond the survey, around E %.2f to %.2f, N %.2f to %.2f %s",
+		what, lengthText(off.BeyondM, u), lo.X/f, hi.X/f, lo.Y/f, hi.Y/f, u)
+	sum := r.Terrain.Summary()
+	if p := r.Job.Design; p.Level == design.LevelFixed && p.WaterLevelM+p.FreeboardM > sum.ZMaxM {
+		msg += fmt.Sprintf("; the rim at %s is above all surveyed ground (highest %s), so the pond would stand on a berm all round",
+			lengthText(p.WaterLevelM+p.FreeboardM, u), lengthText(sum.ZMaxM, u))
+	}
+	return &rewordedError{msg: "design: " + msg + ": survey farther out, or move or lower the pond", err: err}
+}
+
+// rewordedError says err again in the estimator's words (world
+// coordinates, the job's units) and keeps it for errors.Is and errors.As.
+type rewordedError struct {
+	msg string
+	err error
+}
+
+func (e *rewordedError) Error() string { return e.msg }
+func (e *rewordedError) Unwrap() error { return e.err }
